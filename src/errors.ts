@@ -1,0 +1,71 @@
+/**
+ * Errors for people.
+ *
+ * `InputError` is a problem with what the user gave us (a manifest, a data file, a
+ * command-line flag): it names the file, the field or place, what was found and what is
+ * allowed, and keeps the underlying cause. Anything else that escapes is a bug and is
+ * printed as an internal error by the CLI.
+ */
+
+export interface InputErrorDetails {
+  /** File the problem is in (workspace-relative where possible). */
+  file?: string;
+  /** Manifest field (dotted path, e.g. `datasets[2].month`) or data place (`row 14, column 3`, `byte 128`). */
+  where?: string;
+  /** 1-based line number in the file, when known. */
+  line?: number;
+  /** What to do about it. */
+  hint?: string;
+  cause?: unknown;
+}
+
+export class InputError extends Error {
+  readonly file?: string;
+  readonly where?: string;
+  readonly line?: number;
+  readonly hint?: string;
+
+  constructor(message: string, details: InputErrorDetails = {}) {
+    super(formatInputMessage(message, details), details.cause === undefined ? undefined : { cause: details.cause });
+    this.name = 'InputError';
+    this.file = details.file;
+    this.where = details.where;
+    this.line = details.line;
+    this.hint = details.hint;
+  }
+}
+
+function formatInputMessage(message: string, d: InputErrorDetails): string {
+  const place = [d.file, d.line !== undefined ? `line ${d.line}` : undefined, d.where].filter(Boolean).join(', ');
+  const head = place ? `${place}: ${message}` : message;
+  return d.hint ? `${head} (${d.hint})` : head;
+}
+
+/** Several input problems found together (validation collects every problem, not only the first). */
+export class InputErrors extends Error {
+  readonly problems: InputError[];
+  constructor(problems: InputError[]) {
+    super(problems.map((p) => p.message).join('\n'));
+    this.name = 'InputErrors';
+    this.problems = problems;
+  }
+}
+
+/** A broken invariant inside Lacuna: a bug, never the user's fault. */
+export class InternalError extends Error {
+  constructor(message: string, cause?: unknown) {
+    super(`internal error: ${message}`, cause === undefined ? undefined : { cause });
+    this.name = 'InternalError';
+  }
+}
+
+/** The chain of causes of an error, outermost first, for printing as a numbered list. */
+export function causeChain(err: unknown): string[] {
+  const out: string[] = [];
+  let e: unknown = err;
+  for (let depth = 0; e !== undefined && e !== null && depth < 10; depth++) {
+    out.push(e instanceof Error ? e.message : String(e));
+    e = e instanceof Error ? (e as Error & { cause?: unknown }).cause : undefined;
+  }
+  return out;
+}

@@ -1,0 +1,160 @@
+/**
+ * The plain values that pass between Lacuna's stages.
+ *
+ *   manifest → ResolvedDataset → (reader) ActivitySource | WeightsSource
+ *            → (audit) DatasetResult → AuditResult (results.json) → charts → pages
+ *
+ * Everything here is JSON-serialisable except the sources, which hand out
+ * typed-array chunks.
+ */
+
+/** How much a data problem matters. `exclude`: data were left out of a measure (and counted). */
+export type FindingLevel = 'notice' | 'caution' | 'exclude';
+export const FINDING_LEVELS = ['exclude', 'caution', 'notice'] as const satisfies readonly FindingLevel[];
+
+/** A data problem found while reading or measuring. */
+export interface Finding {
+  level: FindingLevel;
+  /** Stable machine code, kebab-case, e.g. `silent-units`, `nan-values`. */
+  code: string;
+  /** One sentence for people: what was found, how many, what Lacuna did about it. */
+  message: string;
+  /** Units, bins, files or byte offsets concerned (capped lists; `count` holds the full number). */
+  where: string[];
+  /** How many elements, units, bins or files this finding concerns. */
+  count: number;
+}
+
+/** Provenance of one input file. */
+export interface FileProvenance {
+  /** Path relative to the workspace root, with forward slashes. */
+  path: string;
+  sha256: string;
+  bytes: number;
+}
+
+// ---------------------------------------------------------------------------
+// Matrices and chunks
+// ---------------------------------------------------------------------------
+
+export type Numeric = Float64Array | Float32Array;
+
+/**
+ * A dense matrix: a typed array plus its shape, row-major (C order).
+ * For activity data, rows are units and columns are time bins or stimuli.
+ */
+export interface DenseMatrix {
+  rows: number;
+  cols: number;
+  data: Numeric;
+}
+
+/**
+ * A block of whole units of an activity matrix: row-major, `units` rows × `bins` columns.
+ * Row r is unit `unitStart + r` across every bin of the dataset. Readers may reuse
+ * `data` (and `missing`) between yields: consumers must not keep references.
+ */
+export interface UnitBlock {
+  unitStart: number;
+  units: number;
+  bins: number;
+  data: Numeric;
+  /** Optional mask, same layout as data: 1 = missing (e.g. outside a unit's observed intervals). */
+  missing?: Uint8Array;
+}
+
+/** An activity dataset opened for streaming. */
+export interface ActivitySource {
+  kind: 'activity';
+  units: number;
+  bins: number;
+  /** Optional names for units (e.g. NWB unit ids, CSV header); length `units` when present. */
+  unitLabels?: string[];
+  /** Bin width in ms where the reader knows it (spike times, NWB series); else null. */
+  binMs: number | null;
+  files: FileProvenance[];
+  /** Where each file's bins start and end in the joined bin axis (sessions joined along bins). */
+  segments: { path: string; binStart: number; bins: number }[];
+  /** Findings the reader made (e.g. missing bins, resampling). */
+  findings: Finding[];
+  /** Yield blocks of whole units, in order, covering every unit exactly once. */
+  blocks(options?: { maxBlockBytes?: number }): AsyncIterable<UnitBlock>;
+}
+
+/** One tensor (layer) of a weights dataset. */
+export interface Tensor {
+  name: string;
+  shape: number[];
+  data: Numeric;
+}
+
+/** A weights dataset opened for streaming: one tensor at a time. */
+export interface WeightsSource {
+  kind: 'weights';
+  files: FileProvenance[];
+  /** Tensor names and shapes, known before reading data. */
+  layers: { name: string; shape: number[] }[];
+  findings: Finding[];
+  tensors(): AsyncIterable<Tensor>;
+}
+
+export type DataSource = ActivitySource | WeightsSource;
+
+// ---------------------------------------------------------------------------
+// Intervals
+// ---------------------------------------------------------------------------
+
+export type IntervalMethod = 'percentile' | 'bca';
+export type ResamplingUnit = 'units' | 'bins' | 'blocks-of-bins' | 'stimuli';
+
+/** A bootstrap confidence interval and everything needed to reproduce it. */
+export interface IntervalRecord {
+  lower: number;
+  upper: number;
+  level: number;
+  method: IntervalMethod;
+  resamples: number;
+  resampling: ResamplingUnit;
+  /** Block length in bins for moving-block resampling; null otherwise. */
+  blockLength: number | null;
+  /** How the block length was chosen: 'auto' (Politis & White 2004/2009) or 'set'. */
+  blockLengthChoice: 'auto' | 'set' | null;
+  seed: number;
+  /** Number of resampled items (units, bins). */
+  n: number;
+}
+
+// ---------------------------------------------------------------------------
+// Results (results.json)
+// ---------------------------------------------------------------------------
+
+export const ACTIVITY_MEASURES = [
+  'population_sparseness',
+  'lifetime_sparseness',
+  'kurtosis',
+  'density',
+  'hoyer',
+  'gini',
+  'activity_ratio',
+] as const;
+export const WEIGHT_MEASURES = ['density', 'graph_density', 'hoyer', 'gini', 'kurtosis'] as const;
+export type MeasureName = (typeof ACTIVITY_MEASURES)[number] | (typeof WEIGHT_MEASURES)[number];
+
+export interface MeasureResult {
+  estimate: number | null;
+  interval: [number, number] | null;
+  level: number | null;
+  method: IntervalMethod | null;
+  /** Number of defined items the estimate summarises (bins, units, elements). */
+  n: number;
+  /** Number of items left out (undefined, missing, non-finite). */
+  excluded: number;
+  /** What the estimate summarises, in words (e.g. "mean over defined bins"). */
+  summary: string;
+  /** Full interval record when an interval was computed. */
+  intervalRecord?: IntervalRecord;
+  /** Other summaries of the same per-item values (median, quartiles, sd). */
+  spread?: { median?: number; q1?: number; q3?: number; sd?: number; min?: number; max?: number };
+  /** Why there is no interval or no estimate, when there is none. */
+  note?: string;
+}
