@@ -158,3 +158,118 @@ export interface MeasureResult {
   /** Why there is no interval or no estimate, when there is none. */
   note?: string;
 }
+
+/**
+ * Per-item values kept for the charts, downsampled where long: per-unit values are kept in
+ * full (one number per unit), per-bin values as a summary of at most ~1,000 windows.
+ */
+export interface ActivityChartData {
+  /** Per-unit values; null where the unit's value is undefined. Index = unit. */
+  unitLabels: string[];
+  lifetimeSparseness: (number | null)[];
+  kurtosis: (number | null)[];
+  meanRate: (number | null)[];
+  /** Population sparseness across bins, summarised in consecutive windows of `windowBins` bins. */
+  populationWindows: { binStart: number; bins: number; mean: number | null; min: number | null; max: number | null; defined: number }[];
+  windowBins: number;
+  /** Bin width in ms, when known; lets charts label the x axis in seconds. */
+  binMs: number | null;
+  /** Event-based population sparseness windows, when event detection is on. */
+  eventPopulationWindows?: ActivityChartData['populationWindows'];
+}
+
+export interface WeightChartData {
+  layers: { name: string; shape: number[]; density: number; hoyer: number | null; gini: number | null; kurtosis: number | null; graphDensity: number | null }[];
+  /** Density as a function of magnitude threshold, per layer (thresholds ascending). */
+  thresholdCurve: { layer: string; threshold: number; density: number }[];
+  /** In- and out-degree per node, for square layers (as histograms: degree → count). */
+  degrees: { layer: string; direction: 'in' | 'out'; degree: number; count: number }[];
+}
+
+export interface DatasetResult {
+  id: string;
+  month: string | null;
+  group: string | null;
+  kind: 'activity' | 'weights';
+  /** [units, bins] for activity; for weights the shape of the single tensor, or [] with layers in chartData. */
+  shape: number[];
+  files: FileProvenance[];
+  measures: Partial<Record<MeasureName, MeasureResult>>;
+  /** Event-based measures (imaging, when event detection is on), labelled separately. */
+  eventMeasures?: Partial<Record<'density' | 'population_sparseness' | 'l0', MeasureResult>>;
+  findings: Finding[];
+  chartData: ActivityChartData | WeightChartData;
+  /** Content hash of everything this dataset's result depends on (cache key). */
+  cacheKey: string;
+}
+
+/** One monthly point of one measure (and group) in the drift series. */
+export interface DriftPoint {
+  month: string;
+  estimate: number | null;
+  interval: [number, number] | null;
+  /** Datasets pooled into this month's point. */
+  datasets: string[];
+  n: number;
+  /** True when the month had too few units or bins; shown, never hidden. */
+  thin: boolean;
+  /** Chart statistic (EWMA z or CUSUM S_H/S_L) and whether it signals. */
+  chartValue: number | null;
+  chartUpper?: number | null;
+  chartLower?: number | null;
+  signal: boolean;
+}
+
+export interface DriftSeries {
+  measure: MeasureName;
+  group: string | null;
+  points: DriftPoint[];
+  baselineMonths: string[];
+  baseline: { mean: number; sd: number } | null;
+  mannKendall: { S: number; varS: number; z: number; p: number; n: number } | null;
+  theilSen: { slope: number; lower: number; upper: number; level: number; intercept: number } | null;
+  /** p-value after the audit-wide multiple-testing adjustment. */
+  pAdjusted: number | null;
+  chart: 'ewma' | 'cusum';
+  firstSignal: string | null;
+}
+
+export interface DriftResult {
+  months: string[];
+  pooling: string;
+  chart: 'ewma' | 'cusum';
+  adjustment: 'holm' | 'bh' | 'none';
+  testsRun: number;
+  series: DriftSeries[];
+  /** Group differences in shared months (e.g. rig A − rig B), with bootstrap intervals. */
+  groupDifferences: { measure: MeasureName; month: string; a: string; b: string; difference: number; interval: [number, number] | null }[];
+  /** A short generated paragraph of what changed. */
+  summary: string;
+}
+
+/** The whole result of one audit version: what `results.json` holds. */
+export interface AuditResult {
+  audit: string;
+  title: string;
+  kind: 'activity' | 'weights';
+  version: string;
+  created: string;
+  tool: { name: 'lacuna'; version: string; node: string; commit: string | null };
+  inputs: FileProvenance[];
+  manifest: { path: string; sha256: string };
+  parameters: Record<string, unknown>;
+  datasets: DatasetResult[];
+  drift: DriftResult | null;
+  notes: string;
+}
+
+/** A chart ready for a page: a Vega-Lite spec plus its text alternative and pre-rendered SVG. */
+export interface ChartSpec {
+  id: string;
+  title: string;
+  /** Text alternative: what the chart shows, in words, with the key numbers. */
+  description: string;
+  datasetId: string | null;
+  spec: Record<string, unknown>;
+  svg?: string;
+}
