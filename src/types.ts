@@ -273,3 +273,38 @@ export interface ChartSpec {
   spec: Record<string, unknown>;
   svg?: string;
 }
+
+/** One version of an audit as listed on the audit's page. */
+export interface VersionEntry {
+  version: string;
+  created: string;
+  /** Hash of everything the version depends on (data hashes, manifest, parameters, tool version). */
+  inputsHash: string;
+  /** One line: what changed since the previous version. */
+  changes: string;
+}
+
+/** What changed between two versions of one audit (`lacuna compare`, and a page per consecutive pair). */
+export interface VersionComparison {
+  audit: string;
+  from: string;
+  to: string;
+  /** Inputs that differ (added, removed or changed content); unchanged ones are not listed. */
+  inputs: { path: string; change: 'added' | 'removed' | 'changed' }[];
+  parameters: { name: string; from: unknown; to: unknown }[];
+  datasets: {
+    id: string;
+    change: 'added' | 'removed' | 'changed' | 'same';
+    measures: {
+      measure: MeasureName;
+      from: number | null;
+      to: number | null;
+      delta: number | null;
+      /** delta / |from|, null when from is 0 or missing. */
+      relative: number | null;
+      /** Whether the two intervals overlap; null when either has none. */
+      overlap: boolean | null;
+    }[];
+  }[];
+  summary: string;
+}
