@@ -1,0 +1,179 @@
+/**
+ * Data readers: the entry points the audit and `lacuna check` use.
+ *
+ *   ResolvedDataset ─┬─ activity: 1. open each file (openActivityFile, per format)
+ *                    │            2. check units agree, 3. hash files, 4. join along bins (join.ts)
+ *                    └─ weights:  1. read every header (weights.ts), 2. hash files
+ *
+ * Formats: npy.ts (NEP 1), npz.ts (+ zip.ts, inflate-source.ts), csv.ts (CSV/TSV matrices),
+ * spikes.ts (spike-time tables), safetensors.ts (weights), nwb.ts (NWB 2.x, loaded on demand so
+ * its HDF5 WebAssembly module is only loaded for NWB datasets). Every problem with a data file is
+ * an InputError naming the workspace-relative file and the place.
+ */
+import { stat } from 'node:fs/promises';
+import type { DataSource, FileProvenance, WeightsSource } from '../types.ts';
+import type { AuditKind, ResolvedDataset } from '../manifest/types.ts';
+import { InputError } from '../errors.ts';
+import type { ActivityFile, FileInspection } from './types.ts';
+import { inputError } from './byte-source.ts';
+import { hashFile } from './hash.ts';
+import { openNpyActivity, openNpyFile, activityGeometry } from './npy.ts';
+import { openNpzActivity, npzEntries, openNpzMember, chooseMember } from './npz.ts';
+import { openCsvActivity, inspectTable } from './csv.ts';
+import { openSpikeTable } from './spikes.ts';
+import { inspectSpikeHeader } from './spikes-inspect.ts';
+import { readSafetensorsHeader } from './safetensors.ts';
+import { delimiterFor } from './table-text.ts';
+import { planWeights, readTensors } from './weights.ts';
+import { joinActivity, DEFAULT_MAX_BLOCK_BYTES } from './join.ts';
+
+export { hashFile };
+export type { ReadableActivityFile } from './activity-file.ts';
+
+/** One file of an activity dataset, opened for `readUnits` (headers read; data not yet). */
+export async function openActivityFile(path: string, relPath: string, ds: ResolvedDataset, ctx: { binMs: number }): Promise<ActivityFile> {
+  switch (ds.format) {
+    case 'npy': return openNpyActivity(path, relPath, ds.layout);
+    case 'npz': return openNpzActivity(path, relPath, ds.layout, ds.member);
+    case 'csv':
+    case 'tsv': return openCsvActivity(path, relPath, ds.layout, delimiterFor(ds.format, relPath));
+    case 'spikes': return openSpikeTable(path, relPath, delimiterFor(ds.format, relPath), ctx.binMs);
+    case 'nwb': {
+      const { openNwbActivity } = await import('./nwb.ts');
+      return openNwbActivity(path, { binMs: ctx.binMs, series: ds.series, relPath });
+    }
+    case 'safetensors':
+      throw inputError(relPath, 'format', 'safetensors files hold weights, not activity', 'use kind: weights, or store activity as npy, npz, csv, tsv, spikes or nwb');
+    default:
+      throw inputError(relPath, 'format', `unknown format '${String(ds.format)}'`);
+  }
+}
+
+function noFiles(ds: ResolvedDataset): InputError {
+  return new InputError(`no ${ds.format} files found at this path`, { file: ds.path, where: `dataset '${ds.id}', path`, hint: `put .${ds.format === 'spikes' ? 'csv' : ds.format} files there or correct the path` });
+}
+
+async function provenanceOf(ds: ResolvedDataset): Promise<FileProvenance[]> {
+  const out: FileProvenance[] = [];
+  for (let i = 0; i < ds.files.length; i++) out.push({ path: ds.relFiles[i], ...(await hashFile(ds.files[i])) });
+  return out;
+}
+
+/** Open a dataset for streaming (activity blocks or weight tensors). */
+export async function openDataset(
+  ds: ResolvedDataset, ctx: { kind: AuditKind; binMs: number; workspaceRoot: string; maxBlockBytes?: number },
+): Promise<DataSource> {
+  if (!ds.files.length) throw noFiles(ds);
+  if (ctx.kind === 'weights') {
+    const plan = await planWeights(ds);
+    const source: WeightsSource = {
+      kind: 'weights',
+      files: await provenanceOf(ds),
+      layers: plan.layers.map((l) => ({ name: l.name, shape: l.shape })),
+      findings: plan.findings,
+      tensors: () => readTensors(plan),
+    };
+    return source;
+  }
+  const files: ActivityFile[] = [];
+  try {
+    for (let i = 0; i < ds.files.length; i++) {
+      const f = await openActivityFile(ds.files[i], ds.relFiles[i], ds, ctx);
+      files.push(f);
+      await f.close(); // release the handle now; reads reopen it
+    }
+    return joinActivity(files, ds.relFiles, await provenanceOf(ds), ctx.maxBlockBytes ?? DEFAULT_MAX_BLOCK_BYTES);
+  } catch (err) {
+    for (const f of files) await f.close();
+    throw err;
+  }
+}
+
+/** Units of an inspected activity file where the layout decides it (npy, npz, csv, tsv); else null. */
+function unitsOf(ins: FileInspection, ds: ResolvedDataset): number | null {
+  if (!ins.shape || !['npy', 'npz', 'csv', 'tsv'].includes(ds.format)) return null;
+  if (ins.shape.length === 1) return 1;
+  return ds.layout === 'units-by-bins' ? ins.shape[0] : ins.shape[1];
+}
+
+async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind: AuditKind): Promise<FileInspection> {
+  const bytes = (await stat(path)).size;
+  switch (ds.format) {
+    case 'npy': {
+      const { src, header } = await openNpyFile(path, rel);
+      await src.close();
+      if (kind === 'activity') activityGeometry(header, ds.layout, rel, 'shape');
+      return { path: rel, format: 'npy', shape: header.shape, dtype: header.dtype.name, bytes };
+    }
+    case 'npz': {
+      const entries = await npzEntries(path, rel);
+      const chosen = kind === 'activity' ? chooseMember(entries, ds.member, rel) : null;
+      const parts: NonNullable<FileInspection['parts']> = [];
+      let shape: number[] | null = null;
+      let dtype: string | null = null;
+      for (const e of entries) {
+        const m = await openNpzMember(path, rel, e);
+        await m.src.close();
+        parts.push({ name: m.name, shape: m.header.shape, dtype: m.header.dtype.name });
+        if (e === chosen) {
+          activityGeometry(m.header, ds.layout, rel, `member '${e.name}', shape`);
+          shape = m.header.shape;
+          dtype = m.header.dtype.name;
+        }
+      }
+      return { path: rel, format: 'npz', shape, dtype, parts, bytes };
+    }
+    case 'csv':
+    case 'tsv': {
+      const t = await inspectTable(path, rel, delimiterFor(ds.format, rel));
+      return { path: rel, format: ds.format, shape: [t.rows, t.cols], dtype: null, bytes };
+    }
+    case 'spikes': {
+      if (kind === 'weights') throw inputError(rel, 'format', "format 'spikes' holds activity, not weights");
+      await inspectSpikeHeader(path, rel, delimiterFor(ds.format, rel));
+      return { path: rel, format: 'spikes', shape: null, dtype: null, bytes };
+    }
+    case 'safetensors': {
+      if (kind === 'activity') throw inputError(rel, 'format', 'safetensors files hold weights, not activity');
+      const h = await readSafetensorsHeader(path, rel);
+      return { path: rel, format: 'safetensors', shape: null, dtype: null, bytes, parts: h.tensors.map((t) => ({ name: t.name, shape: t.shape, dtype: t.dtype.name })) };
+    }
+    case 'nwb': {
+      if (kind === 'weights') throw inputError(rel, 'format', "format 'nwb' holds activity, not weights");
+      const { inspectNwb } = await import('./nwb.ts');
+      return inspectNwb(path, rel, ds.series);
+    }
+    default:
+      throw inputError(rel, 'format', `unknown format '${String(ds.format)}'`);
+  }
+}
+
+/** Headers only, no data pass (for `lacuna check`); every problem is collected, none thrown. */
+export async function inspectDataset(
+  ds: ResolvedDataset, ctx: { kind: AuditKind; binMs: number },
+): Promise<{ files: FileInspection[]; problems: InputError[] }> {
+  const files: FileInspection[] = [];
+  const problems: InputError[] = [];
+  if (!ds.files.length) return { files, problems: [noFiles(ds)] };
+  let firstUnits: { rel: string; units: number } | null = null;
+  for (let i = 0; i < ds.files.length; i++) {
+    const rel = ds.relFiles[i];
+    try {
+      const ins = await inspectFile(ds.files[i], rel, ds, ctx.kind);
+      files.push(ins);
+      const units = ctx.kind === 'activity' ? unitsOf(ins, ds) : null;
+      if (units !== null) {
+        if (!firstUnits) firstUnits = { rel, units };
+        else if (units !== firstUnits.units) {
+          problems.push(new InputError(`${rel} has ${units} units but ${firstUnits.rel} has ${firstUnits.units}; sessions joined along bins must have the same units`, { file: rel, where: 'units' }));
+        }
+      }
+    } catch (err) {
+      if (err instanceof InputError) problems.push(err);
+      else if (err instanceof Error && 'code' in err && typeof (err as NodeJS.ErrnoException).code === 'string') {
+        problems.push(new InputError(`cannot read file: ${err.message}`, { file: rel, cause: err }));
+      } else throw err;
+    }
+  }
+  return { files, problems };
+}

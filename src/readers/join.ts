@@ -1,0 +1,83 @@
+/**
+ * An activity dataset from its files (sessions), joined along the bin axis: file k's bins follow
+ * file k − 1's, so every file must have the same units (an InputError names both files and their
+ * counts when they differ). Unit labels come from the first file that has them; a later file whose
+ * labels differ gives a `caution` finding (units are matched by position, not by name).
+ *
+ * `blocks()` yields blocks of whole units into one buffer allocated per call and reused between
+ * yields: ⌊maxBlockBytes / (bins × bytes per value)⌋ units per block, at least one (so a single
+ * unit wider than the limit still makes a block). The buffer is Float64Array when any file needs
+ * float64 precision (activity-file.ts), else Float32Array. File handles are released when the
+ * iteration ends, early or not.
+ */
+import type { ActivitySource, FileProvenance, Finding, Numeric } from '../types.ts';
+import { InputError } from '../errors.ts';
+import { precisionOf } from './activity-file.ts';
+import type { ActivityFile } from './types.ts';
+
+export const DEFAULT_MAX_BLOCK_BYTES = 64 * 1024 * 1024;
+
+export function joinActivity(
+  files: ActivityFile[], relFiles: string[], provenance: FileProvenance[], maxBlockBytesDefault = DEFAULT_MAX_BLOCK_BYTES,
+): ActivitySource {
+  const first = files[0];
+  const findings: Finding[] = files.flatMap((f) => f.findings);
+  let bins = 0;
+  const segments: ActivitySource['segments'] = [];
+  let unitLabels: string[] | undefined;
+  let labelsFrom = '';
+  for (let i = 0; i < files.length; i++) {
+    const f = files[i];
+    if (f.units !== first.units) {
+      throw new InputError(`${relFiles[i]} has ${f.units} units but ${relFiles[0]} has ${first.units}; sessions joined along bins must have the same units`, {
+        file: relFiles[i], where: 'units', hint: 'split the dataset, or make every file hold the same units in the same order',
+      });
+    }
+    segments.push({ path: relFiles[i], binStart: bins, bins: f.bins });
+    bins += f.bins;
+    if (f.unitLabels) {
+      if (!unitLabels) {
+        unitLabels = f.unitLabels;
+        labelsFrom = relFiles[i];
+      } else if (f.unitLabels.some((l, k) => l !== unitLabels![k])) {
+        findings.push({
+          level: 'caution', code: 'unit-labels-differ',
+          message: `${relFiles[i]} names its units differently from ${labelsFrom}; sessions were joined by unit position, and the labels of ${labelsFrom} are used.`,
+          where: [relFiles[i], labelsFrom], count: f.unitLabels.filter((l, k) => l !== unitLabels![k]).length,
+        });
+      }
+    }
+  }
+  const binMsSet = new Set(files.map((f) => f.binMs));
+  const binMs = binMsSet.size === 1 ? first.binMs : null;
+  const f64 = files.some((f) => precisionOf(f) === 'f64');
+  const anyMissing = files.some((f) => f.hasMissing);
+  const units = first.units;
+
+  return {
+    kind: 'activity', units, bins, unitLabels, binMs, files: provenance, segments, findings,
+    async *blocks(options) {
+      const maxBytes = options?.maxBlockBytes ?? maxBlockBytesDefault;
+      const per = Math.max(1, Math.min(units, Math.floor(maxBytes / (bins * (f64 ? 8 : 4)))));
+      const data: Numeric = f64 ? new Float64Array(per * bins) : new Float32Array(per * bins);
+      const missing = anyMissing ? new Uint8Array(per * bins) : undefined;
+      try {
+        for (let u = 0; u < units; u += per) {
+          const count = Math.min(per, units - u);
+          if (missing) missing.fill(0);
+          for (let i = 0; i < files.length; i++) {
+            await files[i].readUnits(u, count, data, bins, segments[i].binStart, missing);
+          }
+          const n = count * bins;
+          yield {
+            unitStart: u, units: count, bins,
+            data: n === data.length ? data : data.subarray(0, n),
+            missing: missing && (n === missing.length ? missing : missing.subarray(0, n)),
+          };
+        }
+      } finally {
+        for (const f of files) await f.close();
+      }
+    },
+  };
+}
