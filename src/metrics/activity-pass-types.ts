@@ -123,3 +123,99 @@ export function checkPassOptions(shape: { units: number; bins: number }, o: Acti
   }
   return { zeroTolerance: o.zeroTolerance, negatives: o.negatives, events, minNonzero: o.minNonzero };
 }
+
+/** Per-bin values from `finishActivityPass`; NaN where undefined. */
+export interface ActivityBinResult {
+  /** Vinje–Gallant S across the units defined in the bin (policy-transformed values). */
+  populationSparseness: Float64Array;
+  /** Fraction of the bin's defined units with |y| > zeroTolerance. */
+  density: Float64Array;
+  /** Units defined in the bin (finite, not missing, not refused). */
+  defined: Int32Array;
+  active: Int32Array;
+  negative: Int32Array;
+  sum: Float64Array;
+  sumSq: Float64Array;
+}
+
+export interface ActivityEventResult {
+  k: number;
+  baselineBins: [number, number] | null;
+  unitMedian: Float64Array;
+  unitRobustSd: Float64Array;
+  /** Event bins per unit; −1 = undefined (no baseline cell, or σ̂ = 0). */
+  unitEvents: Int32Array;
+  binDefined: Int32Array;
+  binEvents: Int32Array;
+  /** Event bins / defined units, per bin. */
+  binDensity: Float64Array;
+  /** Vinje–Gallant S of the binary event vector across units: (n − k)/(n − 1); NaN when k = 0 or n < 2. */
+  binPopulationSparseness: Float64Array;
+  undefinedUnits: number;
+}
+
+/** Totals the findings are made from. */
+export interface ActivityPassTotals {
+  cells: number;
+  definedCells: number;
+  nanCells: number;
+  infiniteCells: number;
+  missingCells: number;
+  negativeCells: number;
+  changedCells: number;
+  unitsWithNegatives: number;
+  emptyUnits: number;
+  silentUnits: number;
+  constantUnits: number;
+  saturatedUnits: number;
+  refusedUnits: number;
+  kurtosisTooFewUnits: number;
+  /** Under `keep`: units whose lifetime S > 1 + 1e-12, bins whose population S > 1 + 1e-12. */
+  lifetimeOutOfRangeUnits: number;
+  populationOutOfRangeBins: number;
+}
+
+export interface ActivityPassResult {
+  units: number;
+  bins: number;
+  options: ActivityPassOptions;
+  /** The per-unit arrays of the merged state (see `ActivityPassState`). */
+  unit: Pick<
+    ActivityPassState,
+    | 'mean' | 'lifetimeSparseness' | 'activityRatio' | 'hoyer' | 'gini' | 'skewness' | 'kurtosis' | 'min' | 'max'
+    | 'defined' | 'nan' | 'infinite' | 'missing' | 'negative' | 'nonzero' | 'atMax' | 'changed'
+    | 'silent' | 'constant' | 'refused' | 'hashA' | 'hashB'
+  > & {
+    /** 1 = saturated (rule in `SATURATION_RULE`); 1 = kurtosis withheld for too few nonzero bins. */
+    saturated: Uint8Array;
+    kurtosisTooFew: Uint8Array;
+  };
+  bin: ActivityBinResult;
+  events: ActivityEventResult | null;
+  totals: ActivityPassTotals;
+  /** Pairs [first, other] of units with identical row hashes (silent and empty units left out). */
+  duplicates: [number, number][];
+}
+
+/** A state with nothing added: per-unit values NaN, counts 0. */
+export function emptyPassState(units: number, bins: number, options: ActivityPassOptions): ActivityPassState {
+  const f = () => new Float64Array(units).fill(NaN);
+  const i = () => new Int32Array(units);
+  const ev = options.events !== null;
+  return {
+    units, bins, options,
+    seen: new Uint8Array(units),
+    mean: f(), lifetimeSparseness: f(), activityRatio: f(), hoyer: f(), gini: f(), skewness: f(), kurtosis: f(), min: f(), max: f(),
+    defined: i(), nan: i(), infinite: i(), missing: i(), negative: i(), nonzero: i(), atMax: i(), changed: i(),
+    silent: new Uint8Array(units), constant: new Uint8Array(units), refused: new Uint8Array(units),
+    hashA: new Uint32Array(units), hashB: new Uint32Array(units),
+    eventMedian: new Float64Array(ev ? units : 0).fill(NaN),
+    eventRobustSd: new Float64Array(ev ? units : 0).fill(NaN),
+    eventCount: new Int32Array(ev ? units : 0).fill(-1),
+    fullRows: 0,
+    binPartialDefined: new Int32Array(bins), binSum: new Float64Array(bins), binSumSq: new Float64Array(bins),
+    binActive: new Int32Array(bins), binNegative: new Int32Array(bins),
+    eventFullRows: 0,
+    binEventPartialDefined: new Int32Array(ev ? bins : 0), binEvents: new Int32Array(ev ? bins : 0),
+  };
+}

@@ -52,10 +52,10 @@ export function assertFinite(fn: string, x: ArrayLike<number>): void {
 /**
  * A power of two to multiply the data by so that sums of squares (and squares of sums, with
  * up to 2⁵³ terms) can neither overflow nor underflow: 1 when `maxAbs` is within
- * [2⁻⁴⁰⁰, 2⁴⁰⁰], else 2^−⌈log₂ maxAbs⌉. Multiplying by a power of two is exact, so scale-free
+ * [2⁻⁴⁰⁰, 2⁴⁰⁰], else 2^−⌈log₂ maxAbs⌉ (capped at 2¹⁰⁰⁰ for subnormal data). Multiplying by a power of two is exact, so scale-free
  * measures (a, S, Hoyer) are unchanged by it.
  */
 export function scaleFor(maxAbs: number): number {
   if (maxAbs === 0 || (maxAbs <= 2 ** 400 && maxAbs >= 2 ** -400)) return 1;
-  return 2 ** -Math.ceil(Math.log2(maxAbs));
+  return 2 ** Math.min(1000, -Math.ceil(Math.log2(maxAbs)));
 }

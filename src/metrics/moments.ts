@@ -9,6 +9,8 @@
  *    then compensated sums of the centred powers. Stable where the one-pass Σx² − n·x̄² is not
  *    (NIST StRD NumAcc4: the naive formula gives a negative variance; this gives s = 0.1).
  *    When every element is equal the result is exact: mean = x[0], m2 = m3 = m4 = 0.
+ *    The mean is kept as a double-double (`mean` + `meanLo`) so that merges stay exact for data
+ *    with a large offset; callers may ignore `meanLo`.
  *  - `mergeMoments(a, b)`: the moments of the concatenation, from the pairwise update of
  *    Chan, Golub & LeVeque (1979) for m2 and its extension to m3 and m4 by Pébay (2008).
  *    With δ = mean_b − mean_a and n = n_a + n_b:
@@ -32,6 +34,13 @@ import { nonFiniteError } from './check.ts';
 export interface Moments {
   n: number;
   mean: number;
+  /**
+   * Low-order part of the mean (a double-double): the mean is `mean + meanLo` to about 2⁻¹⁰⁰
+   * relative. Optional on input (absent = 0). It keeps merges exact where each chunk's rounded
+   * mean would not be: with data at 1e7 ± 1e-3 the rounding of a chunk mean (ulp 1.9e-9) alone
+   * would cost m2 about 1e-8 of its value.
+   */
+  meanLo?: number;
   /** Σ (x − mean)² */
   m2: number;
   /** Σ (x − mean)³ */
@@ -42,7 +51,7 @@ export interface Moments {
 
 /** The moments of no data (the identity of `mergeMoments`). */
 export function emptyMoments(): Moments {
-  return { n: 0, mean: 0, m2: 0, m3: 0, m4: 0 };
+  return { n: 0, mean: 0, meanLo: 0, m2: 0, m3: 0, m4: 0 };
 }
 
 /** Two-pass moments of in-memory data. Cost: two passes, O(n), no allocation. */
@@ -66,13 +75,19 @@ export function momentsChecked(fn: string, x: ArrayLike<number>): Moments {
     c += Math.abs(s) >= Math.abs(v) ? s - t + v : v - t + s;
     s = t;
   }
-  if (allEqual) return { n, mean: first, m2: 0, m3: 0, m4: 0 };
-  const mean = (s + c) / n;
-  let s2 = 0, c2 = 0, s3 = 0, c3 = 0, s4 = 0, c4 = 0;
+  if (allEqual) return { n, mean: first, meanLo: 0, m2: 0, m3: 0, m4: 0 };
+  // Pass 2: power sums of d = x − h about the rounded mean h, all compensated. S1 = Σd is the
+  // mean's rounding error times n; the moments are then shifted to h + S1/n (the "corrected
+  // two-pass" idea of Chan, Golub & LeVeque, carried to m3 and m4 by the binomial theorem).
+  const h = (s + c) / n;
+  let s1 = 0, c1 = 0, s2 = 0, c2 = 0, s3 = 0, c3 = 0, s4 = 0, c4 = 0;
   for (let i = 0; i < n; i++) {
-    const d = x[i] - mean;
+    const d = x[i] - h;
+    let t = s1 + d;
+    c1 += Math.abs(s1) >= Math.abs(d) ? s1 - t + d : d - t + s1;
+    s1 = t;
     const q = d * d;
-    let t = s2 + q;
+    t = s2 + q;
     c2 += s2 >= q ? s2 - t + q : q - t + s2;
     s2 = t;
     const k = q * d;
@@ -84,20 +99,37 @@ export function momentsChecked(fn: string, x: ArrayLike<number>): Moments {
     c4 += s4 >= f ? s4 - t + f : f - t + s4;
     s4 = t;
   }
-  return { n, mean, m2: s2 + c2, m3: s3 + c3, m4: s4 + c4 };
+  const S2 = s2 + c2, S3 = s3 + c3, S4 = s4 + c4;
+  const e = (s1 + c1) / n;
+  const mean = h + e;
+  return {
+    n,
+    mean,
+    meanLo: e - (mean - h),
+    m2: S2 - n * e * e,
+    m3: S3 - 3 * e * S2 + 2 * n * e * e * e,
+    m4: S4 - 4 * e * S3 + 6 * e * e * S2 - 3 * n * e * e * e * e,
+  };
 }
 
 /** Moments of the concatenation of the data behind `a` and `b` (Chan et al. 1979; Pébay 2008). O(1). */
 export function mergeMoments(a: Moments, b: Moments): Moments {
-  if (b.n === 0) return { ...a };
-  if (a.n === 0) return { ...b };
+  if (b.n === 0) return { meanLo: 0, ...a };
+  if (a.n === 0) return { meanLo: 0, ...b };
   const na = a.n;
   const nb = b.n;
   const n = na + nb;
-  const delta = b.mean - a.mean;
+  const aLo = a.meanLo ?? 0;
+  const bLo = b.meanLo ?? 0;
+  const delta = b.mean - a.mean + (bLo - aLo);
   const dn = delta / n;
   const nanb = na * nb;
-  const mean = na >= nb ? a.mean + dn * nb : b.mean - dn * na;
+  // New mean as a double-double: the larger part's mean plus a small step (Knuth's TwoSum).
+  const [base, baseLo, step] = na >= nb ? [a.mean, aLo, dn * nb] : [b.mean, bLo, -dn * na];
+  const hi = base + step;
+  const bv = hi - base;
+  const lo = baseLo + (base - (hi - bv)) + (step - bv);
+  const mean = hi + lo;
   const m2 = a.m2 + b.m2 + delta * dn * nanb;
   const m3 = a.m3 + b.m3 + delta * dn * dn * nanb * (na - nb) + 3 * dn * (na * b.m2 - nb * a.m2);
   const m4 =
@@ -105,7 +137,7 @@ export function mergeMoments(a: Moments, b: Moments): Moments {
     delta * dn * dn * dn * nanb * (na * na - nanb + nb * nb) +
     6 * dn * dn * (na * na * b.m2 + nb * nb * a.m2) +
     4 * dn * (na * b.m3 - nb * a.m3);
-  return { n, mean, m2, m3, m4 };
+  return { n, mean, meanLo: lo - (mean - hi), m2, m3, m4 };
 }
 
 /** Variance m2/(n − ddof); ddof = 1 (default) is the sample variance s². null when n ≤ ddof. */
