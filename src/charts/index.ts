@@ -1,0 +1,57 @@
+/**
+ * Chart specs for an audit result.
+ *
+ *   AuditResult ─1→ per dataset: measures summary, then
+ *                     activity: population sparseness over time (and event-based), lifetime
+ *                               sparseness across units, per-unit kurtosis
+ *                     weights:  density per layer, density versus threshold, degree distributions
+ *               ─2→ drift: one chart per series, when `result.drift`
+ *               ─3→ (optional) renderChartSvgs: SVG for each, server-side
+ *
+ * Every builder is pure (plain values in, a plain `ChartSpec` out); charts whose data are
+ * missing are left out rather than drawn empty.
+ */
+import type { AuditResult, ChartSpec } from '../types.ts';
+import { degreeDistributionCharts } from './degree-distribution.ts';
+import { driftCharts } from './drift.ts';
+import { kurtosisChart } from './kurtosis.ts';
+import { layerDensityChart } from './layer-density.ts';
+import { lifetimeSparsenessChart } from './lifetime-sparseness.ts';
+import { measuresSummaryChart } from './measures-summary.ts';
+import { populationSparsenessChart } from './population-sparseness.ts';
+import { thresholdCurveChart } from './threshold-curve.ts';
+
+export { compileToVega, renderChartSvg, renderChartSvgs } from './render.ts';
+export type { ChartLogger } from './render.ts';
+export { driftCharts, driftSeriesChart } from './drift.ts';
+export { kurtosisChart } from './kurtosis.ts';
+export { layerDensityChart } from './layer-density.ts';
+export { lifetimeSparsenessChart } from './lifetime-sparseness.ts';
+export { measuresSummaryChart } from './measures-summary.ts';
+export { populationSparsenessChart } from './population-sparseness.ts';
+export { thresholdCurveChart } from './threshold-curve.ts';
+export { degreeDistributionCharts } from './degree-distribution.ts';
+
+/** Every chart of every dataset, in dataset order, then the drift charts. Ids are unique. */
+export function buildCharts(result: AuditResult): ChartSpec[] {
+  const out: (ChartSpec | null)[] = [];
+  for (const ds of result.datasets) {
+    // 1. per dataset
+    out.push(measuresSummaryChart(ds));
+    if (ds.kind === 'activity') {
+      out.push(populationSparsenessChart(ds), populationSparsenessChart(ds, { events: true }), lifetimeSparsenessChart(ds), kurtosisChart(ds));
+    } else {
+      out.push(layerDensityChart(ds), thresholdCurveChart(ds), ...degreeDistributionCharts(ds));
+    }
+  }
+  // 2. drift
+  if (result.drift) out.push(...driftCharts(result.drift));
+  const charts = out.filter((c): c is ChartSpec => c !== null);
+  // Ids must be unique on a page: suffix repeats (two dataset ids that slug alike).
+  const seen = new Map<string, number>();
+  return charts.map((c) => {
+    const k = seen.get(c.id) ?? 0;
+    seen.set(c.id, k + 1);
+    return k === 0 ? c : { ...c, id: `${c.id}-${k + 1}` };
+  });
+}
