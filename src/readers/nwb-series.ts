@@ -62,7 +62,9 @@ function readTimeBase(file: H5File, series: string, samples: number, relPath: st
   }
   const st = getDataset(file, `${series}/starting_time`);
   if (!st) throw new InputError('time series has neither timestamps nor starting_time', { file: relPath, where: series });
-  const t0 = readRange(st, 0, 1)[0];
+  requireNumeric(st, relPath);
+  // starting_time is a scalar in NWB; a hyperslab of a scalar is refused by HDF5, so read its value.
+  const t0 = (st.shape ?? []).length === 0 ? Number(st.value) : readRange(st, 0, 1)[0];
   const rate = attrNumber(st, 'rate');
   if (!Number.isFinite(t0)) throw new InputError(`starting_time ${t0} is not a finite number`, { file: relPath, where: st.path });
   if (rate === null || !Number.isFinite(rate) || rate <= 0) throw new InputError(`starting_time has rate ${rate}; allowed: a positive number (Hz)`, { file: relPath, where: `${st.path}@rate` });
