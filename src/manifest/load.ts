@@ -80,7 +80,7 @@ export async function loadManifest(file: string, workspaceRoot: string): Promise
     }
   }
   // 5.
-  if (problems.length > 0) throw new InputErrors(problems);
+  if (problems.length > 0) throw new InputErrors(problems.sort((a, b) => (a.line ?? Infinity) - (b.line ?? Infinity)));
   const { datasets: _validated, ...settings } = value;
   return { file: abs, relFile, sha256, ...settings, datasets, notes: body };
 }

@@ -88,8 +88,7 @@ export function parseManifestText(text: string, file: string): ParsedManifestTex
   };
   const engines = { yaml: yamlEngine, yml: yamlEngine, js: refuse, javascript: refuse, coffee: refuse, coffeescript: refuse, cson: refuse, json: refuse };
   // Options are always passed, so gray-matter's text-keyed cache is never used.
-  const parsed = matter(src, { engines, language: 'yaml', excerpt: false } as never);
-  if (block === '' && !parsed.isEmpty) block = (parsed as unknown as { matter: string }).matter ?? '';
+  const parsed = matter(src, { engines, language: 'yaml', excerpt: false } as never) as unknown as { data: unknown; content: string; isEmpty: boolean };
   const data = parsed.isEmpty ? {} : parsed.data;
   if (data === null || typeof data !== 'object' || Array.isArray(data)) {
     throw new InputError(`front matter is ${Array.isArray(data) ? 'a list' : 'a single value'}; allowed: a mapping of fields (\`name: value\` lines)`, { file, line: 2 });

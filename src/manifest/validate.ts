@@ -49,6 +49,8 @@ export function collectManifest(data: unknown, ctx: ValidateContext): { value: V
     problems.push(new InputError(message, { file: ctx.file, where, line: ctx.lineOf?.(where), hint }));
   const value = walkMapping(MANIFEST_FIELDS, data ?? {}, '', report) as unknown as ValidatedManifest;
   crossChecks(value, data, report);
+  // In file order (stable; problems without a line last), as people read the file.
+  problems.sort((a, b) => (a.line ?? Infinity) - (b.line ?? Infinity));
   return { value, problems };
 }
 
@@ -192,7 +194,7 @@ function suggest(key: string, fields: readonly FieldSpec[], prefix: string): str
   if (near) return `did you mean ${JSON.stringify(near)}?`;
   // A field written at the wrong level, e.g. `seed:` at the top instead of under `bootstrap:`.
   const elsewhere = flattenFields().find(({ path }) => path.endsWith(`.${key}`) || path === key);
-  if (elsewhere) return `${JSON.stringify(key)} belongs at ${elsewhere.path}${prefix ? '' : ' (nested, not at the top level)'}`;
+  if (elsewhere) return `${JSON.stringify(key)} belongs at ${elsewhere.path}`;
   return undefined;
 }
 
