@@ -40,6 +40,11 @@ export interface Random {
   int(n: number): number;
   /** A standard normal variate (inversion with AS241). */
   normal(): number;
+  /**
+   * Fill `out` with `int(n)` draws, in order: the same numbers as `out.length` calls of `int(n)`
+   * (a tight loop for the bootstrap's hot path when n ≤ 2²¹). n must be < 2³¹ to fit. Returns `out`.
+   */
+  fillInt(n: number, out: Int32Array): Int32Array;
 }
 
 const TWO32 = 4294967296;
@@ -130,7 +135,43 @@ export function createRandom(seed: number): Random {
     return normalPpf(u);
   }
 
-  return { seed, nextUint32, next, int, normal };
+  function fillInt(n: number, out: Int32Array): Int32Array {
+    if (!(n <= 2097152 && n >= 1 && Number.isInteger(n))) {
+      for (let i = 0; i < out.length; i++) out[i] = int(n); // validates n; int32 holds < 2³¹ only
+      return out;
+    }
+    const threshold = (TWO32 - n) % n;
+    let a = s0;
+    let b = s1;
+    let c = s2;
+    let d = s3;
+    for (let i = 0; i < out.length; i++) {
+      let hi: number;
+      for (;;) {
+        // One xoshiro128** step on local copies of the state (same as nextUint32).
+        const m = Math.imul(b, 5);
+        const x = Math.imul((m << 7) | (m >>> 25), 9) >>> 0;
+        const t = b << 9;
+        c ^= a;
+        d ^= b;
+        b ^= c;
+        a ^= d;
+        c ^= t;
+        d = (d << 11) | (d >>> 21);
+        const p = x * n;
+        hi = Math.floor(p * INV_TWO32);
+        if (p - hi * TWO32 >= threshold) break;
+      }
+      out[i] = hi;
+    }
+    s0 = a;
+    s1 = b;
+    s2 = c;
+    s3 = d;
+    return out;
+  }
+
+  return { seed, nextUint32, next, int, normal, fillInt };
 }
 
 /** Exact 64-bit product of two integers in [0, 2³²), as [high 32 bits, low 32 bits]. */
