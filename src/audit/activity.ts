@@ -1,0 +1,164 @@
+/**
+ * One activity dataset, end to end:
+ *
+ *   1. stream unit blocks from the reader into the fused one-pass engine (bounded memory);
+ *   2. finish the pass: per-unit and per-bin values, counts;
+ *   3. findings from the reader and from the counts;
+ *   4. each measure summarised with its bootstrap interval (see summarise.ts);
+ *   5. chart data (per-unit values in full, per-bin values in ≤ ~1,000 windows).
+ */
+import { createActivityPass, finishActivityPass, type ActivityPassResult } from '../metrics/activity-pass.ts';
+import { activityFindings } from '../metrics/activity-findings.ts';
+import type { ResolvedDataset, ResolvedManifest } from '../manifest/types.ts';
+import type { ActivityChartData, ActivitySource, DatasetResult, Finding, MeasureResult } from '../types.ts';
+import { summarise, type IntervalPlan } from './summarise.ts';
+
+export const ACTIVITY_SUMMARIES = {
+  population_sparseness: "mean over defined bins of each bin's Vinje–Gallant sparseness across units",
+  lifetime_sparseness: "mean over defined units of each unit's Vinje–Gallant sparseness across bins",
+  kurtosis: "median over units of each unit's excess kurtosis g2 across bins",
+  density: 'fraction of all defined elements with |x| above the zero tolerance',
+  hoyer: "mean over defined units of each unit's Hoyer sparseness across bins",
+  gini: "mean over defined units of each unit's Gini index across bins",
+  activity_ratio: "mean over defined units of each unit's Treves–Rolls activity ratio across bins",
+} as const;
+
+export async function computeActivity(
+  ds: ResolvedDataset,
+  m: ResolvedManifest,
+  source: ActivitySource,
+  onBytes: (n: number) => void,
+): Promise<Omit<DatasetResult, 'cacheKey'>> {
+  // 1. Stream.
+  const binMs = source.binMs ?? m.bin_ms;
+  const events = m.events
+    ? {
+        k: m.events.k,
+        ...(m.events.baseline === 'trace' ? {} : { baselineBins: baselineBins(m.events.baseline, binMs, source.bins) }),
+      }
+    : null;
+  const pass = createActivityPass(
+    { units: source.units, bins: source.bins },
+    { zeroTolerance: m.zero_tolerance, negatives: m.negatives, events, minNonzero: m.min_nonzero },
+  );
+  for await (const block of source.blocks()) {
+    pass.addBlock(block);
+    onBytes(block.units * block.bins * block.data.BYTES_PER_ELEMENT);
+  }
+  // 2. Finish.
+  const r = finishActivityPass(pass.state());
+
+  // 3. Findings.
+  const findings: Finding[] = [...source.findings, ...activityFindings(r, { unitLabels: source.unitLabels })];
+  if (source.bins < m.min_bins) {
+    findings.push({
+      level: 'caution',
+      code: 'too-few-bins',
+      message: `only ${source.bins} ${m.axis === 'time' ? 'bins' : 'stimuli'} (min_bins is ${m.min_bins}): no intervals for the per-bin measures, and per-unit values are noisy.`,
+      where: source.files.map((f) => f.path),
+      count: source.bins,
+    });
+  }
+  if (source.units < 3) {
+    findings.push({ level: 'caution', code: 'too-few-units', message: `only ${source.units} unit(s): no intervals over units.`, where: [], count: source.units });
+  }
+
+  // 4. Measures.
+  const overUnits: IntervalPlan = { bootstrap: m.bootstrap, over: 'units', axis: m.axis, minItems: 3 };
+  const overBins: IntervalPlan = { bootstrap: m.bootstrap, over: 'bins', axis: m.axis, minItems: m.min_bins };
+  const u = r.unit;
+  const measures: DatasetResult['measures'] = {
+    population_sparseness: summarise(overBins, { kind: 'mean', values: r.bin.populationSparseness }, ACTIVITY_SUMMARIES.population_sparseness),
+    lifetime_sparseness: summarise(overUnits, { kind: 'mean', values: u.lifetimeSparseness }, ACTIVITY_SUMMARIES.lifetime_sparseness),
+    kurtosis: summarise(overUnits, { kind: 'median', values: u.kurtosis }, ACTIVITY_SUMMARIES.kurtosis),
+    density: summarise(overBins, { kind: 'ratio', numerator: toF64(r.bin.active), denominator: toF64(r.bin.defined) }, ACTIVITY_SUMMARIES.density),
+    hoyer: summarise(overUnits, { kind: 'mean', values: u.hoyer }, ACTIVITY_SUMMARIES.hoyer),
+    gini: summarise(overUnits, { kind: 'mean', values: u.gini }, ACTIVITY_SUMMARIES.gini),
+    activity_ratio: summarise(overUnits, { kind: 'mean', values: u.activityRatio }, ACTIVITY_SUMMARIES.activity_ratio),
+  };
+  let eventMeasures: DatasetResult['eventMeasures'];
+  if (r.events) {
+    const e = r.events;
+    let l0 = 0;
+    let l0Units = 0;
+    for (let i = 0; i < e.unitEvents.length; i++) if (e.unitEvents[i] >= 0) (l0 += e.unitEvents[i]), l0Units++;
+    const l0Result: MeasureResult = {
+      estimate: l0,
+      interval: null,
+      level: null,
+      method: null,
+      n: l0Units,
+      excluded: e.unitEvents.length - l0Units,
+      summary: `number of event bins (L0) over all units, events at k = ${e.k} robust SDs`,
+      note: 'a count, reported without an interval',
+    };
+    eventMeasures = {
+      density: summarise(overBins, { kind: 'ratio', numerator: toF64(e.binEvents), denominator: toF64(e.binDefined) }, `fraction of defined elements that are events (k = ${e.k} robust SDs)`),
+      population_sparseness: summarise(overBins, { kind: 'mean', values: e.binPopulationSparseness }, "mean over defined bins of each bin's Vinje–Gallant sparseness of the binary event vector"),
+      l0: l0Result,
+    };
+  }
+
+  // 5. Chart data.
+  const chartData = activityChartData(r, source, binMs);
+  return {
+    id: ds.id,
+    month: ds.month,
+    group: ds.group,
+    kind: 'activity',
+    shape: [source.units, source.bins],
+    files: source.files,
+    measures,
+    ...(eventMeasures ? { eventMeasures } : {}),
+    findings,
+    chartData,
+  };
+}
+
+function toF64(a: Int32Array): Float64Array {
+  return Float64Array.from(a);
+}
+
+function baselineBins(b: { start_s: number; end_s: number }, binMs: number, bins: number): [number, number] {
+  const start = Math.max(0, Math.floor((b.start_s * 1000) / binMs));
+  const end = Math.min(bins, Math.ceil((b.end_s * 1000) / binMs));
+  return [start, Math.max(start + 1, end)];
+}
+
+const nullable = (v: number) => (Number.isFinite(v) ? v : null);
+
+function windows(values: Float64Array, windowBins: number): ActivityChartData['populationWindows'] {
+  const out: ActivityChartData['populationWindows'] = [];
+  for (let start = 0; start < values.length; start += windowBins) {
+    const end = Math.min(values.length, start + windowBins);
+    let sum = 0;
+    let n = 0;
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (let i = start; i < end; i++) {
+      const v = values[i];
+      if (v !== v) continue;
+      sum += v;
+      n++;
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+    }
+    out.push({ binStart: start, bins: end - start, mean: n ? sum / n : null, min: n ? lo : null, max: n ? hi : null, defined: n });
+  }
+  return out;
+}
+
+function activityChartData(r: ActivityPassResult, source: ActivitySource, binMs: number): ActivityChartData {
+  const windowBins = Math.max(1, Math.ceil(r.bins / 1000));
+  const labels = source.unitLabels ?? Array.from({ length: r.units }, (_, i) => `unit ${i}`);
+  return {
+    unitLabels: labels,
+    lifetimeSparseness: Array.from(r.unit.lifetimeSparseness, nullable),
+    kurtosis: Array.from(r.unit.kurtosis, nullable),
+    meanRate: Array.from(r.unit.mean, nullable),
+    populationWindows: windows(r.bin.populationSparseness, windowBins),
+    windowBins,
+    binMs,
+    ...(r.events ? { eventPopulationWindows: windows(r.events.binPopulationSparseness, windowBins) } : {}),
+  };
+}

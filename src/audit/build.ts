@@ -1,0 +1,259 @@
+/**
+ * A build, as a pipeline of plain stages:
+ *
+ *   1. manifests  — find and validate every `audits/*.md` (all problems reported together)
+ *   2. inputs     — SHA-256 of every data file (cached by size, mtime and inode)
+ *   3. compute    — each dataset from the cache, or measured in a worker thread (--shard: only
+ *                   this process's share, then stop: a later plain build renders)
+ *   4. assemble   — one AuditResult per audit, with drift across months
+ *   5. version    — unchanged inputs reuse the latest version; changed inputs write a new record
+ *   6. render     — pages for every version not yet in the output folder, the audit's version
+ *                   list, the site index; each version written to a temporary folder and renamed
+ *                   into place, so an interrupted build leaves the older versions intact
+ */
+import { cpus } from 'node:os';
+import { execFileSync } from 'node:child_process';
+import { existsSync, mkdirSync, renameSync, rmSync } from 'node:fs';
+import { join } from 'node:path';
+import { findManifests, loadManifest } from '../manifest/index.ts';
+import type { ResolvedManifest } from '../manifest/types.ts';
+import { InputError, InputErrors } from '../errors.ts';
+import type { AuditResult, DatasetResult, FileProvenance } from '../types.ts';
+import { TOOL_VERSION } from '../version.ts';
+import type { Progress } from '../cli/progress.ts';
+import { provenanceOf } from './cache.ts';
+import { computeDataset, keyFor, type DatasetJob } from './dataset.ts';
+import { readCachedDataset } from './cache.ts';
+import { runJobs } from './pool.ts';
+import { buildDrift } from './drift.ts';
+import { compareVersions } from './compare.ts';
+import { describeChange, inputsHash, listVersions, nextVersionName, readRecord, writeRecord, RECORD_FORMAT } from './versions.ts';
+
+export interface BuildOptions {
+  workspace: string;
+  out: string;
+  audit?: string;
+  /** "I/N": compute share I (1-based) of N into the cache, render nothing. */
+  shard?: string;
+  /** 'auto' or a whole number ≥ 1. */
+  workers?: string;
+  progress: Progress;
+  /** Fixed clock for tests. */
+  now?: () => Date;
+}
+
+export interface BuildSummary {
+  audits: { audit: string; version: string; reused: boolean; datasets: number }[];
+  computed: number;
+  cached: number;
+  rendered: string[];
+}
+
+export function parseShard(text: string): { index: number; count: number } {
+  const m = /^(\d+)\/(\d+)$/.exec(text);
+  const index = m ? Number(m[1]) : NaN;
+  const count = m ? Number(m[2]) : NaN;
+  if (!m || count < 1 || index < 1 || index > count) {
+    throw new InputError(`--shard must be I/N with 1 ≤ I ≤ N, got "${text}"`, { hint: 'e.g. --shard 2/8 for the second of eight shards' });
+  }
+  return { index, count };
+}
+
+function workerCount(text: string | undefined, jobs: number): number {
+  if (!text || text === 'auto') return Math.max(1, Math.min(jobs, cpus().length, 4));
+  const n = Number(text);
+  if (!Number.isInteger(n) || n < 1) throw new InputError(`--workers must be "auto" or a whole number ≥ 1, got "${text}"`);
+  return Math.min(n, Math.max(1, jobs));
+}
+
+function gitCommit(dir: string): string | null {
+  try {
+    return execFileSync('git', ['-C', dir, 'rev-parse', 'HEAD'], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'ignore'] }).trim() || null;
+  } catch {
+    return null;
+  }
+}
+
+/** 1. Every manifest, validated; all problems of all manifests together. */
+async function loadAll(workspace: string, only?: string): Promise<ResolvedManifest[]> {
+  const files = await findManifests(workspace);
+  const manifests: ResolvedManifest[] = [];
+  const problems: InputError[] = [];
+  for (const f of files) {
+    try {
+      manifests.push(await loadManifest(f, workspace));
+    } catch (err) {
+      if (err instanceof InputErrors) problems.push(...err.problems);
+      else if (err instanceof InputError) problems.push(err);
+      else throw err;
+    }
+  }
+  if (problems.length) throw new InputErrors(problems);
+  const seen = new Map<string, string>();
+  for (const m of manifests) {
+    const other = seen.get(m.audit);
+    if (other) throw new InputError(`audit slug "${m.audit}" is used by two manifests`, { file: m.relFile, where: 'audit', hint: `also in ${other}` });
+    seen.set(m.audit, m.relFile);
+  }
+  if (only) {
+    const picked = manifests.filter((m) => m.audit === only);
+    if (!picked.length) throw new InputError(`no audit named "${only}"`, { hint: `audits here: ${manifests.map((m) => m.audit).join(', ') || 'none'}` });
+    return picked;
+  }
+  if (!manifests.length) throw new InputError(`no manifests in ${join(workspace, 'audits')}`, { hint: 'add one, or make a demo workspace with `lacuna init DIR`' });
+  return manifests;
+}
+
+export function parametersOf(m: ResolvedManifest): Record<string, unknown> {
+  return {
+    kind: m.kind,
+    axis: m.axis,
+    bin_ms: m.bin_ms,
+    zero_tolerance: m.zero_tolerance,
+    bootstrap: m.bootstrap,
+    negatives: m.negatives,
+    events: m.events,
+    drift: m.drift,
+    min_bins: m.min_bins,
+    min_nonzero: m.min_nonzero,
+  };
+}
+
+export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
+  const { workspace, progress } = o;
+  const now = o.now ?? (() => new Date());
+  const shard = o.shard ? parseShard(o.shard) : null;
+
+  // 1. Manifests.
+  const manifests = await loadAll(workspace, o.audit);
+
+  // 2. Inputs.
+  const allFiles = manifests.flatMap((m) => m.datasets.flatMap((d) => d.files.map((abs, i) => ({ abs, rel: d.relFiles[i] }))));
+  const hashStep = progress.step('hashing inputs', allFiles.length);
+  const provenance = new Map<string, FileProvenance>();
+  for (const f of allFiles) {
+    if (!provenance.has(f.rel)) provenance.set(f.rel, (await provenanceOf(workspace, [f]))[0]);
+    hashStep.advance(1);
+  }
+  hashStep.done();
+
+  // 3. Compute.
+  const jobs: (DatasetJob & { key: string; bytes: number })[] = [];
+  for (const m of manifests) {
+    m.datasets.forEach((d, i) => {
+      const files = d.relFiles.map((r) => provenance.get(r)!);
+      jobs.push({ workspace, manifest: m, datasetIndex: i, files, key: keyFor(d, m, files), bytes: files.reduce((s, f) => s + f.bytes, 0) });
+    });
+  }
+  const mine = shard ? jobs.filter((_, i) => i % shard.count === shard.index - 1) : jobs;
+  const results = new Map<string, DatasetResult>();
+  const todo: typeof jobs = [];
+  for (const j of mine) {
+    const hit = readCachedDataset(workspace, j.key);
+    if (hit) results.set(j.key, hit);
+    else todo.push(j);
+  }
+  const cached = mine.length - todo.length;
+  if (todo.length) {
+    const step = progress.step(`computing ${todo.length} dataset${todo.length === 1 ? '' : 's'}`, todo.reduce((s, j) => s + j.bytes, 0), 'bytes');
+    const computed = await runJobs(todo, workerCount(o.workers, todo.length), (n) => step.advance(n));
+    computed.forEach((r) => results.set(r.cacheKey, r));
+    step.done(`${cached} from cache`);
+  } else {
+    progress.info(`all ${mine.length} dataset results taken from the cache`);
+  }
+  if (shard) {
+    progress.info(`shard ${shard.index}/${shard.count}: ${todo.length} computed, ${cached} already cached; run a plain \`lacuna build\` to render`);
+    return { audits: [], computed: todo.length, cached, rendered: [] };
+  }
+
+  // 4–5. Assemble and version.
+  const summary: BuildSummary = { audits: [], computed: todo.length, cached, rendered: [] };
+  const commit = gitCommit(workspace);
+  for (const m of manifests) {
+    const datasets = jobs.filter((j) => j.manifest === m).map((j) => results.get(j.key)!);
+    const inputs = datasets.flatMap((d) => d.files);
+    const parameters = parametersOf(m);
+    const hash = inputsHash({ manifestSha256: m.sha256, inputs, parameters, toolVersion: TOOL_VERSION });
+    const versions = listVersions(workspace, m.audit);
+    const latest = versions[versions.length - 1];
+    if (latest && latest.inputsHash === hash) {
+      summary.audits.push({ audit: m.audit, version: latest.version, reused: true, datasets: datasets.length });
+      continue;
+    }
+    const version = nextVersionName(versions);
+    const drift = m.kind === 'activity' ? buildDrift(datasets, m.drift, { level: m.bootstrap.level, seed: m.bootstrap.seed, resamples: m.bootstrap.resamples }) : null;
+    const result: AuditResult = {
+      audit: m.audit,
+      title: m.title,
+      kind: m.kind,
+      version,
+      created: now().toISOString(),
+      tool: { name: 'lacuna', version: TOOL_VERSION, node: process.version, commit },
+      inputs,
+      manifest: { path: m.relFile, sha256: m.sha256 },
+      parameters,
+      datasets,
+      drift,
+      notes: m.notes,
+    };
+    const prev = latest ? readRecord(workspace, m.audit, latest.version).result : null;
+    writeRecord(workspace, { format: RECORD_FORMAT, entry: { version, created: result.created, inputsHash: hash, changes: describeChange(prev, result) }, result });
+    summary.audits.push({ audit: m.audit, version, reused: false, datasets: datasets.length });
+  }
+
+  // 6. Render.
+  summary.rendered = await renderSite(o.out, workspace, manifests.map((m) => m.audit), progress);
+  return summary;
+}
+
+/** Pages for every version missing from `out`, then the version lists and the site index. */
+export async function renderSite(out: string, workspace: string, audits: string[], progress: Progress): Promise<string[]> {
+  const { renderVersion, renderAuditIndex, renderSiteIndex, copyAssets } = await import('../report/site.ts');
+  const { buildCharts, renderChartSvgs } = await import('../charts/index.ts');
+  mkdirSync(out, { recursive: true });
+  const rendered: string[] = [];
+  const pending: { audit: string; version: string }[] = [];
+  for (const audit of audits) {
+    for (const v of listVersions(workspace, audit)) if (!existsSync(join(out, audit, v.version, 'index.html'))) pending.push({ audit, version: v.version });
+  }
+  const step = progress.step('rendering pages', pending.length);
+  for (const p of pending) {
+    const all = listVersions(workspace, p.audit);
+    const idx = all.findIndex((v) => v.version === p.version);
+    const rec = readRecord(workspace, p.audit, p.version);
+    const prev = idx > 0 ? readRecord(workspace, p.audit, all[idx - 1].version).result : null;
+    const charts = await renderChartSvgs(buildCharts(rec.result));
+    const target = join(out, p.audit, p.version);
+    const tmp = join(out, p.audit, `.tmp-${p.version}-${process.pid}`);
+    rmSync(tmp, { recursive: true, force: true });
+    mkdirSync(tmp, { recursive: true });
+    try {
+      // A version's page lists only its own history, so regenerating it later gives the same page.
+      await renderVersion({ result: rec.result, charts, comparison: prev ? compareVersions(prev, rec.result) : null, versions: all.slice(0, idx + 1) }, tmp);
+      if (existsSync(target)) rmSync(target, { recursive: true, force: true }); // only a folder without index.html: a leftover, not a version
+      renameSync(tmp, target);
+    } catch (err) {
+      rmSync(tmp, { recursive: true, force: true });
+      throw err;
+    }
+    rendered.push(`${p.audit}/${p.version}`);
+    step.advance(1);
+  }
+  step.done();
+  const siteAudits = [];
+  for (const audit of audits) {
+    const versions = listVersions(workspace, audit);
+    if (!versions.length) continue;
+    const latest = readRecord(workspace, audit, versions[versions.length - 1].version).result;
+    await renderAuditIndex({ audit, title: latest.title, versions, latest: latest.version }, join(out, audit));
+    const findings = { exclude: 0, caution: 0, notice: 0 };
+    for (const d of latest.datasets) for (const f of d.findings) findings[f.level] += 1;
+    siteAudits.push({ audit, title: latest.title, latest: latest.version, created: latest.created, datasets: latest.datasets.length, findings });
+  }
+  await renderSiteIndex(siteAudits, out);
+  await copyAssets(out);
+  return rendered;
+}
+
+export { computeDataset };

@@ -1,0 +1,88 @@
+/**
+ * The content-hash cache in `<workspace>/.lacuna-cache/` (safe to delete; never committed).
+ *
+ * - `hashes.json`: SHA-256 of each input file keyed by (path, size, mtime, inode), so an
+ *   unchanged file is not read again just to learn that it is unchanged.
+ * - `datasets/<key>.json`: a computed `DatasetResult`, keyed by a hash of the dataset's file
+ *   hashes, its manifest entry, the parameters that affect it and the tool version. Shards of
+ *   a cluster build write here; the final render reads from here.
+ *
+ * Every write goes to a temporary file and is renamed into place, so a reader (or a crash)
+ * never sees half an entry; a cache entry that fails to parse is treated as missing.
+ */
+import { createHash } from 'node:crypto';
+import { createReadStream, existsSync, mkdirSync, readFileSync, renameSync, statSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { DatasetResult, FileProvenance } from '../types.ts';
+import { canonicalJson } from './versions.ts';
+
+export function cacheDir(workspace: string): string {
+  return join(workspace, '.lacuna-cache');
+}
+
+function atomicWriteJson(file: string, value: unknown): void {
+  mkdirSync(join(file, '..'), { recursive: true });
+  const tmp = `${file}.tmp-${process.pid}-${Math.random().toString(36).slice(2)}`;
+  writeFileSync(tmp, JSON.stringify(value));
+  renameSync(tmp, file);
+}
+
+function readJson<T>(file: string): T | null {
+  if (!existsSync(file)) return null;
+  try {
+    return JSON.parse(readFileSync(file, 'utf8')) as T;
+  } catch {
+    return null;
+  }
+}
+
+export async function sha256File(path: string, onBytes?: (n: number) => void): Promise<string> {
+  const hash = createHash('sha256');
+  for await (const chunk of createReadStream(path, { highWaterMark: 4 << 20 })) {
+    hash.update(chunk as Buffer);
+    onBytes?.((chunk as Buffer).length);
+  }
+  return hash.digest('hex');
+}
+
+type HashEntry = { size: number; mtimeMs: number; ino: number; sha256: string };
+
+/** Provenance of files, hashing only those whose size, mtime or inode changed since last time. */
+export async function provenanceOf(
+  workspace: string,
+  files: { abs: string; rel: string }[],
+  onBytes?: (n: number) => void,
+): Promise<FileProvenance[]> {
+  const store = join(cacheDir(workspace), 'hashes.json');
+  const known = readJson<Record<string, HashEntry>>(store) ?? {};
+  let dirty = false;
+  const out: FileProvenance[] = [];
+  for (const f of files) {
+    const st = statSync(f.abs);
+    const k = known[f.rel];
+    let sha: string;
+    if (k && k.size === st.size && k.mtimeMs === st.mtimeMs && k.ino === st.ino) {
+      sha = k.sha256;
+    } else {
+      sha = await sha256File(f.abs, onBytes);
+      known[f.rel] = { size: st.size, mtimeMs: st.mtimeMs, ino: st.ino, sha256: sha };
+      dirty = true;
+    }
+    out.push({ path: f.rel, sha256: sha, bytes: st.size });
+  }
+  if (dirty) atomicWriteJson(store, { ...(readJson<Record<string, HashEntry>>(store) ?? {}), ...known });
+  return out;
+}
+
+export function datasetCacheKey(parts: { files: FileProvenance[]; entry: unknown; parameters: unknown; toolVersion: string }): string {
+  return createHash('sha256').update(canonicalJson(parts)).digest('hex');
+}
+
+export function readCachedDataset(workspace: string, key: string): DatasetResult | null {
+  const r = readJson<DatasetResult>(join(cacheDir(workspace), 'datasets', `${key}.json`));
+  return r && r.cacheKey === key ? r : null;
+}
+
+export function writeCachedDataset(workspace: string, result: DatasetResult): void {
+  atomicWriteJson(join(cacheDir(workspace), 'datasets', `${result.cacheKey}.json`), result);
+}
