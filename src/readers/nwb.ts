@@ -84,7 +84,8 @@ export async function openNwbActivity(path: string, opts: { binMs: number; serie
  * What `lacuna check` reports about an NWB file, from headers and attributes only (no spike
  * times or samples are read): the chosen candidate's shape and dtype, and every candidate as
  * `parts` (name = HDF5 path, dtype = `<neurodata_type> <dtype>`). Units tables have shape
- * [units] — their bin count depends on the spike times. Same InputErrors as opening.
+ * [units] — their bin count depends on the spike times. `path` is `relPath`, as the other
+ * readers' inspections give it. Same InputErrors as opening.
  */
 export async function inspectNwb(path: string, relPath: string, series: string | null): Promise<FileInspection> {
   const file = await openHdf5(path, relPath);
@@ -92,7 +93,7 @@ export async function inspectNwb(path: string, relPath: string, series: string |
     const c = choose(file, relPath, series);
     const { candidates } = findCandidates(file);
     return {
-      path,
+      path: relPath,
       format: 'nwb',
       shape: c.shape,
       dtype: c.dtype,
