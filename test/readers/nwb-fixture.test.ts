@@ -177,6 +177,52 @@ describe('NWB fixture: values', () => {
   });
 });
 
+describe('NWB fixture: observation intervals not on bin edges', () => {
+  it('counts a partly covered bin as observed, merges overlapping intervals, and drops spikes in missing bins', async () => {
+    const p = withFile('obs.nwb', (f) => {
+      const g = f.create_group('units');
+      writeUnits(g, [[0.05, 0.27, 0.31], [0.12]], [1, 2]);
+      g.create_dataset({ name: 'obs_intervals', data: new Float64Array([0.05, 0.25, 0.1, 0.2, 0.15, 0.35]), shape: [3, 2] });
+      g.create_dataset({ name: 'obs_intervals_index', data: BigInt64Array.from([1n, 3n]) });
+    });
+    const f = await openNwbActivity(p, { binMs: 100, series: null, relPath: 'obs.nwb' });
+    try {
+      // Bins of 100 ms. Unit 1: [0.05, 0.25] covers part of bin 0, all of bin 1, part of bin 2 → observed {0,1,2}.
+      //   Spikes 0.05→bin 0, 0.27→bin 2, 0.31→bin 3 (missing: left out).
+      // Unit 2: [0.1, 0.2] covers bin 1 (touches bin 2 only at 0.2 s); [0.15, 0.35] covers bins 1, 2, 3
+      //   → merged observed {1,2,3}. Spike 0.12→bin 1.
+      // Bins: last spike 0.31 s → bin 3; last interval end 0.35 s → ⌈3.5⌉ = 4 bins.
+      expect(f.bins).toBe(4);
+      const { values, missing } = await readAll(f);
+      expect(values).toEqual([
+        [1, 0, 1, 0],
+        [0, 1, 0, 0],
+      ]);
+      expect(missing).toEqual([
+        [0, 0, 0, 1],
+        [1, 0, 0, 0],
+      ]);
+      expect(f.findings.find((x) => x.code === 'unobserved-bins')?.count).toBe(2);
+      expect(f.findings.find((x) => x.code === 'spikes-outside-observation')).toMatchObject({ level: 'exclude', count: 1, where: ['unit 1'] });
+    } finally {
+      await f.close();
+    }
+  });
+
+  it('an observation interval that ends before it starts is an error naming its row', async () => {
+    const p = withFile('obs-bad.nwb', (f) => {
+      const g = f.create_group('units');
+      writeUnits(g, [[0.1]], [0]);
+      g.create_dataset({ name: 'obs_intervals', data: new Float64Array([0.5, 0.2]), shape: [1, 2] });
+      g.create_dataset({ name: 'obs_intervals_index', data: BigInt64Array.from([1n]) });
+    });
+    const err = await openNwbActivity(p, { binMs: 100, series: null, relPath: 'obs-bad.nwb' }).catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(InputError);
+    expect((err as InputError).where).toBe('/units/obs_intervals[0]');
+    expect(isReleased(p)).toBe(true);
+  });
+});
+
 describe('NWB error cases', () => {
   const failWith = async (path: string) => {
     const err = await openNwbActivity(path, { binMs: 100, series: null, relPath: 'x.nwb' }).catch((e: unknown) => e);
