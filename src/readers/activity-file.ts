@@ -11,6 +11,17 @@ export interface ReadableActivityFile extends ActivityFile {
    * the joiner uses float64 blocks when any file of a dataset needs them.
    */
   precision: Precision;
+  /**
+   * Always true here: `close()` only releases file handles, and the next `readUnits` reopens
+   * them. (The contract in types.ts does not promise this, so files from other readers are
+   * reopened for each pass instead; see join.ts.)
+   */
+  reusableAfterClose: true;
+}
+
+/** True when `close()` leaves the file readable (see ReadableActivityFile). */
+export function isReusable(f: ActivityFile): boolean {
+  return (f as Partial<ReadableActivityFile>).reusableAfterClose === true;
 }
 
 /** A file's precision; readers that do not say (e.g. NWB) get float64, which is always exact. */

@@ -95,7 +95,7 @@ export async function openCsvActivity(path: string, relPath: string, layout: Lay
     });
   }
   return {
-    path, units, bins, binMs: null, findings, hasMissing: false, precision: 'f64',
+    path, units, bins, binMs: null, findings, hasMissing: false, precision: 'f64', reusableAfterClose: true,
     unitLabels: t.header && !unitsFirst ? t.header : undefined,
     async readUnits(unitStart, count, out, outCols, colOffset) {
       if (unitStart < 0 || count < 0 || unitStart + count > units || colOffset + bins > outCols) {

@@ -80,9 +80,10 @@ export async function openDataset(
     for (let i = 0; i < ds.files.length; i++) {
       const f = await openActivityFile(ds.files[i], ds.relFiles[i], ds, ctx);
       files.push(f);
-      await f.close(); // release the handle now; reads reopen it
+      await f.close(); // release handles now; each pass of blocks() reads (or reopens) it
     }
-    return joinActivity(files, ds.relFiles, await provenanceOf(ds), ctx.maxBlockBytes ?? DEFAULT_MAX_BLOCK_BYTES);
+    const reopen = (i: number) => openActivityFile(ds.files[i], ds.relFiles[i], ds, ctx);
+    return joinActivity(files, ds.relFiles, await provenanceOf(ds), ctx.maxBlockBytes ?? DEFAULT_MAX_BLOCK_BYTES, reopen);
   } catch (err) {
     for (const f of files) await f.close();
     throw err;

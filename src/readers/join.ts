@@ -8,17 +8,20 @@
  * yields: ⌊maxBlockBytes / (bins × bytes per value)⌋ units per block, at least one (so a single
  * unit wider than the limit still makes a block). The buffer is Float64Array when any file needs
  * float64 precision (activity-file.ts), else Float32Array. File handles are released when the
- * iteration ends, early or not.
+ * iteration ends, early or not. A file whose `close()` is final (not `reusableAfterClose`, e.g.
+ * NWB) is opened again through `reopen` at the start of each pass and closed at its end; a
+ * reopened file whose units or bins changed since the dataset was opened is an InputError.
  */
 import type { ActivitySource, FileProvenance, Finding, Numeric } from '../types.ts';
-import { InputError } from '../errors.ts';
-import { precisionOf } from './activity-file.ts';
+import { InputError, InternalError } from '../errors.ts';
+import { precisionOf, isReusable } from './activity-file.ts';
 import type { ActivityFile } from './types.ts';
 
 export const DEFAULT_MAX_BLOCK_BYTES = 64 * 1024 * 1024;
 
 export function joinActivity(
   files: ActivityFile[], relFiles: string[], provenance: FileProvenance[], maxBlockBytesDefault = DEFAULT_MAX_BLOCK_BYTES,
+  reopen?: (index: number) => Promise<ActivityFile>,
 ): ActivitySource {
   const first = files[0];
   const findings: Finding[] = files.flatMap((f) => f.findings);
@@ -61,12 +64,22 @@ export function joinActivity(
       const per = Math.max(1, Math.min(units, Math.floor(maxBytes / (bins * (f64 ? 8 : 4)))));
       const data: Numeric = f64 ? new Float64Array(per * bins) : new Float32Array(per * bins);
       const missing = anyMissing ? new Uint8Array(per * bins) : undefined;
+      const open: ActivityFile[] = [];
       try {
+        for (let i = 0; i < files.length; i++) {
+          if (isReusable(files[i])) { open.push(files[i]); continue; }
+          if (!reopen) throw new InternalError(`${relFiles[i]} cannot be read again after close and no reopen was given`);
+          const f = await reopen(i);
+          open.push(f);
+          if (f.units !== files[i].units || f.bins !== files[i].bins) {
+            throw new InputError(`file changed while in use: now ${f.units} units × ${f.bins} bins, was ${files[i].units} × ${files[i].bins}`, { file: relFiles[i], where: 'shape' });
+          }
+        }
         for (let u = 0; u < units; u += per) {
           const count = Math.min(per, units - u);
           if (missing) missing.fill(0);
-          for (let i = 0; i < files.length; i++) {
-            await files[i].readUnits(u, count, data, bins, segments[i].binStart, missing);
+          for (let i = 0; i < open.length; i++) {
+            await open[i].readUnits(u, count, data, bins, segments[i].binStart, missing);
           }
           const n = count * bins;
           yield {
@@ -76,7 +89,7 @@ export function joinActivity(
           };
         }
       } finally {
-        for (const f of files) await f.close();
+        for (const f of open) await f.close();
       }
     },
   };

@@ -109,7 +109,7 @@ export function npyActivityFile(
     binMs: null,
     findings: [],
     hasMissing: false,
-    precision: h.dtype.precision,
+    precision: h.dtype.precision, reusableAfterClose: true,
     async readUnits(unitStart, count, out, outCols, colOffset) {
       if (unitStart < 0 || count < 0 || unitStart + count > g.units || colOffset + g.bins > outCols || out.length < count * outCols) {
         throw new RangeError(`readUnits(${unitStart}, ${count}) outside ${g.units} units or block of ${outCols} columns`);

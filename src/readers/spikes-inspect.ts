@@ -6,16 +6,23 @@ import { inputError } from './byte-source.ts';
 import { cellNumber, splitCells } from './table-text.ts';
 import { textLines } from './text-lines.ts';
 
+/**
+ * The duration in a `# duration_s: X` comment line, null for any other comment; an InputError
+ * when X is not a finite number of seconds > 0.
+ */
+export function durationComment(text: string, relPath: string, line: number): number | null {
+  const m = /^\s*#\s*duration_s\s*:\s*(\S*)\s*$/.exec(text);
+  if (!m) return null;
+  const d = cellNumber(m[1]);
+  if (d === undefined || !Number.isFinite(d) || d <= 0) throw inputError(relPath, `row ${line}`, `duration_s is ${JSON.stringify(m[1])}; allowed a finite number of seconds > 0`);
+  return d;
+}
+
 export async function inspectSpikeHeader(path: string, relPath: string, delim: string): Promise<{ columns: string[]; durationS: number | null }> {
   let durationS: number | null = null;
   for await (const [line, text] of textLines(path, relPath, 1 << 20)) {
     if (text.trimStart().startsWith('#')) {
-      const m = /^\s*#\s*duration_s\s*:\s*(\S*)\s*$/.exec(text);
-      if (m) {
-        const d = cellNumber(m[1]);
-        if (d === undefined || !Number.isFinite(d) || d <= 0) throw inputError(relPath, `row ${line}`, `duration_s is ${JSON.stringify(m[1])}; allowed a finite number of seconds > 0`);
-        durationS = d;
-      }
+      durationS = durationComment(text, relPath, line) ?? durationS;
       continue;
     }
     if (text.trim() === '') continue;

@@ -20,6 +20,7 @@ import type { Finding } from '../types.ts';
 import { inputError } from './byte-source.ts';
 import { cellNumber, splitCells } from './table-text.ts';
 import { textLines } from './text-lines.ts';
+import { durationComment } from './spikes-inspect.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
 
 const EDGE = 1e-9;
@@ -69,10 +70,8 @@ export async function openSpikeTable(path: string, relPath: string, delim: strin
   let maxBin = -1;
   for await (const [line, text] of textLines(path, relPath)) {
     if (text.trimStart().startsWith('#')) {
-      const m = /^\s*#\s*duration_s\s*:\s*(\S*)\s*$/.exec(text);
-      if (m && unitCol < 0) {
-        const d = cellNumber(m[1]);
-        if (d === undefined || !Number.isFinite(d) || d <= 0) throw inputError(relPath, `row ${line}`, `duration_s is ${JSON.stringify(m[1])}; allowed a finite number of seconds > 0`);
+      const d = unitCol < 0 ? durationComment(text, relPath, line) : null;
+      if (d !== null) {
         duration = d;
         nbinsFixed = Math.ceil(d / binS - EDGE * Math.max(1, d / binS));
         if (nbinsFixed > MAX_BINS) throw inputError(relPath, `row ${line}`, `duration_s ${d} at ${binMs} ms makes more than ${MAX_BINS} bins`);
@@ -148,7 +147,7 @@ export async function openSpikeTable(path: string, relPath: string, delim: strin
   const units = labels.length;
   return {
     path, units, bins, binMs, findings, hasMissing: false, unitLabels: labels,
-    precision: n < 2 ** 24 ? 'f32' : 'f64',
+    precision: n < 2 ** 24 ? 'f32' : 'f64', reusableAfterClose: true,
     async readUnits(unitStart, count, out, outCols, colOffset) {
       if (unitStart < 0 || count < 0 || unitStart + count > units || colOffset + bins > outCols) {
         throw new RangeError(`readUnits(${unitStart}, ${count}) outside ${units} units or block of ${outCols} columns`);

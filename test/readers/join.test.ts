@@ -9,6 +9,8 @@ import { join } from 'node:path';
 import { writeNpy } from '../../src/readers/npy-write.ts';
 import { openDataset, inspectDataset, hashFile } from '../../src/readers/index.ts';
 import { dataset, readAll, tempDir, errorOf } from './helpers.ts';
+import { joinActivity } from '../../src/readers/join.ts';
+import type { ActivityFile } from '../../src/readers/types.ts';
 
 const tmp = tempDir();
 afterAll(tmp.cleanup);
@@ -57,5 +59,26 @@ describe('joining sessions', () => {
     const big = Buffer.alloc(3 * (1 << 20) + 17, 7); // spans several 1 MiB reads
     writeFileSync(join(tmp.dir, 'big.bin'), big);
     expect(await hashFile(join(tmp.dir, 'big.bin'))).toEqual({ sha256: createHash('sha256').update(big).digest('hex'), bytes: big.length });
+  });
+
+  it('reopens, for each pass, a file whose close() is final (the NWB reader contract)', async () => {
+    // A one-unit file of 3 bins valued [7, 8, 9] whose reads fail after close, like nwb.ts.
+    let opened = 0;
+    let closed = 0;
+    const make = (): ActivityFile => {
+      opened++;
+      let open = true;
+      return {
+        path: '/x.nwb', units: 1, bins: 3, binMs: 10, findings: [], hasMissing: false,
+        async readUnits(_u, _c, out, _cols, off) { if (!open) throw new Error('read after close'); out.set([7, 8, 9], off); },
+        async close() { open = false; closed++; },
+      };
+    };
+    const first = make();
+    await first.close();
+    const src = joinActivity([first], ['x.nwb'], [], undefined, async () => make());
+    expect(Array.from(await readAll(src))).toEqual([7, 8, 9]);
+    expect(Array.from(await readAll(src))).toEqual([7, 8, 9]);
+    expect([opened, closed]).toEqual([3, 3]); // opened once to learn the shape, then once per pass; all closed
   });
 });

@@ -65,3 +65,13 @@ describe('spike-time tables', () => {
     expect(['a10', 'a9', '10', '2', 'b', 'a09x'].sort(naturalCompare)).toEqual(['2', '10', 'a9', 'a09x', 'a10', 'b']);
   });
 });
+
+describe('spike-table check (headers only)', () => {
+  it('reports a bad header and a bad duration line as problems, and names no shape', async () => {
+    const { inspectDataset } = await import('../../src/readers/index.ts');
+    const files = [file('i1.csv', 'unit,time\na,0.1\n'), file('i2.csv', 'neuron,t\n1,2\n'), file('i3.csv', '# duration_s: -1\nunit,time\n')];
+    const r = await inspectDataset(dataset(tmp.dir, files, 'spikes'), { kind: 'activity', binMs: 10 });
+    expect(r.files.map((f) => [f.path, f.shape])).toEqual([['i1.csv', null]]);
+    expect(r.problems.map((p) => [p.file, p.where])).toEqual([['i2.csv', 'row 1'], ['i3.csv', 'row 1']]);
+  });
+});
