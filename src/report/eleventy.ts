@@ -80,5 +80,22 @@ export async function writePages(pages: PageData[], outDir: string): Promise<voi
     },
   });
   elev.disableLogger();
-  await elev.write();
+  try {
+    await elev.write();
+  } catch (err) {
+    // The templates are ours and the data plain values, so a failure here is a bug; keep every
+    // message of Eleventy's chain (it nests them as `originalError`) in the one we throw.
+    throw new InternalError(`report pages could not be written to ${outDir}: ${eleventyMessages(err).join(' ← ')}`, err);
+  }
+}
+
+/** Messages of an Eleventy error and the errors it wraps (`originalError`, or `cause`). */
+export function eleventyMessages(err: unknown): string[] {
+  const out: string[] = [];
+  for (let e = err; e instanceof Error && out.length < 10; ) {
+    out.push(e.message);
+    const inner = e as Error & { originalError?: unknown; cause?: unknown };
+    e = inner.originalError ?? inner.cause;
+  }
+  return out;
 }

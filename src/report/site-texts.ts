@@ -1,12 +1,17 @@
 /**
- * The words and tables a version folder needs from the text modules (methods paragraph,
- * cautions, summary tables, references), gathered in one place so the site has one seam.
- * TEMPORARY: wired to `methods.ts`, `tables.ts` and `bibtex.ts` once they land.
+ * The words and tables a version folder needs from the text modules, gathered at one seam:
+ * the methods paragraph and cautions (`methods.ts`), the summary table as CSV, Markdown and
+ * LaTeX (`tables.ts`), and BibTeX entries for exactly the works the methods cite (`bibtex.ts`).
  */
 import type { AuditResult } from '../types.ts';
+import { bibtex } from './bibtex.ts';
+import { cautionsText, methodsText } from './methods.ts';
+import { summaryRows, toCsv, toLatex, toMarkdown } from './tables.ts';
 
 export interface VersionTexts {
+  /** Methods paragraphs as Markdown (rendered on the page through `renderMarkdown`) and plain text. */
   methods: { markdown: string; plain: string };
+  /** Plain sentences: what the intervals assume, what drift flags are, approvals for human data. */
   cautions: string[];
   csv: string;
   markdownTable: string;
@@ -14,13 +19,16 @@ export interface VersionTexts {
   bib: string;
 }
 
+/** Gather every text of one version. Pure; throws only on a bug (an unknown citation key). */
 export function versionTexts(result: AuditResult): VersionTexts {
+  const methods = methodsText(result);
+  const rows = summaryRows(result);
   return {
-    methods: { markdown: `Methods for ${result.title} (pending).`, plain: 'pending' },
-    cautions: ['pending'],
-    csv: '',
-    markdownTable: '',
-    latex: '',
-    bib: '',
+    methods: { markdown: methods.markdown, plain: methods.plain },
+    cautions: cautionsText(result).items,
+    csv: toCsv(rows),
+    markdownTable: toMarkdown(rows),
+    latex: toLatex(rows),
+    bib: bibtex(methods.citations),
   };
 }

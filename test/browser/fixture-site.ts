@@ -44,7 +44,13 @@ export async function buildFixtureSite(outDir: string, results: AuditResult[] = 
     const charts = await renderChartSvgs(buildCharts(result));
     const versions: VersionEntry[] = [{ version: result.version, created: result.created, inputsHash: '0'.repeat(64), changes: 'first build' }];
     const comparison = result.drift ? fixtureComparison(result) : null;
-    if (comparison) versions.unshift({ version: comparison.from, created: '2024-05-31T08:00:00.000Z', inputsHash: '1'.repeat(64), changes: 'first build' });
+    if (comparison) {
+      // The previous version the comparison starts from: the same result, earlier, in its own folder.
+      versions.unshift({ version: comparison.from, created: '2024-05-31T08:00:00.000Z', inputsHash: '1'.repeat(64), changes: 'first build' });
+      versions[1].changes = 'one input file changed';
+      const previous = { ...structuredClone(result), version: comparison.from, created: versions[0].created };
+      await renderVersion({ result: previous, charts, comparison: null, versions: versions.slice(0, 1) }, `${outDir}/${result.audit}/${previous.version}`);
+    }
     const versionDir = `${outDir}/${result.audit}/${result.version}`;
     await renderVersion({ result, charts, comparison, versions }, versionDir);
     await renderAuditIndex({ audit: result.audit, title: result.title, versions, latest: result.version }, `${outDir}/${result.audit}`);
