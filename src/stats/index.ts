@@ -25,3 +25,8 @@ export {
 } from './bootstrap-interval.ts';
 export { bootstrapInterval, type BootstrapOptions, type BootstrapResult, type BootstrapStatistic } from './bootstrap.ts';
 export { bootstrapDifference, type DifferenceOptions, type DifferenceResult } from './bootstrap-difference.ts';
+export { mannKendall, type MannKendallResult } from './mann-kendall.ts';
+export { theilSen, type TheilSenResult } from './theil-sen.ts';
+export { ewmaChart, type EwmaChart, type EwmaOptions } from './ewma.ts';
+export { cusumChart, type CusumChart, type CusumOptions } from './cusum.ts';
+export { holm, benjaminiHochberg } from './multiple-testing.ts';
