@@ -70,11 +70,7 @@ function histogramGini(
   range: number,
   scratch: GiniScratch,
 ): number {
-  if (scratch.hist === null || scratch.hist.length < range + 1) {
-    scratch.hist = new Int32Array(Math.min(COUNTING_RANGE_LIMIT, Math.max(range, 2 * bins, 64)) + 1);
-  }
-  const h = scratch.hist;
-  h.fill(0, 0, range + 1);
+  const h = zeroedHistogram(scratch, range, bins);
   for (let j = 0; j < bins; j++) {
     const x = data[off + j];
     if (x - x !== 0 || (mask !== undefined && mask[off + j] !== 0)) continue;
@@ -84,6 +80,11 @@ function histogramGini(
     if (i !== v) return NaN;
     h[i]++;
   }
+  return giniFromHistogram(h, range, n, l1);
+}
+
+/** Gini from counts h[v] of the integer magnitudes v = 0..range (n values, ‖c‖₁ = l1 > 0). */
+export function giniFromHistogram(h: Int32Array, range: number, n: number, l1: number): number {
   let acc = 0;
   let k = h[0];
   const np = n + 0.5;
@@ -94,4 +95,13 @@ function histogramGini(
     k += c;
   }
   return 1 - (2 * acc) / (l1 * n);
+}
+
+/** A zeroed histogram of at least range + 1 counts, grown in `scratch` when needed. */
+export function zeroedHistogram(scratch: GiniScratch, range: number, bins: number): Int32Array {
+  if (scratch.hist === null || scratch.hist.length < range + 1) {
+    scratch.hist = new Int32Array(Math.min(COUNTING_RANGE_LIMIT, Math.max(range, 2 * bins, 64)) + 1);
+  }
+  scratch.hist.fill(0, 0, range + 1);
+  return scratch.hist;
 }

@@ -2,11 +2,11 @@
  * The per-row loops of the fused activity pass (internal to `activity-pass.ts`).
  *
  * A row is one unit across all bins. Pass 1 (`scanRow`) classifies every cell and gathers
- * count, sum, Σ|x|, Σmax(0,x), min, max, cells at the max, negatives, nonzeros and whether the
- * row is integer-valued. Pass 2 (`momentsAndBins`) takes the raw mean and gathers the central
- * moment sums Σd², Σd³, Σd⁴ (d = x − mean; two-pass, float64) and, in the same loop, adds the
- * policy-transformed value y to the per-bin accumulators (Σy, Σy², active count). The row is in
- * cache for the second pass. No allocation: results go into a reused `RowScan`/`RowMoments`.
+ * count, Σx, Σ|x|, Σmax(0,x), min, max and negatives. Pass 2 (`momentsAndBins`) takes the raw
+ * mean and gathers the central moment sums Σd², Σd³, Σd⁴ (d = x − mean; two-pass, float64),
+ * nonzero and at-max counts and, in the same loop, adds the policy-transformed value y to the
+ * per-bin accumulators (Σy, Σy², active count). The row is in cache for the second pass. No
+ * allocation: results go into a reused `RowScan`/`RowMoments`.
  *
  * Excluded cells (NaN, ±Infinity, missing) are skipped by every sum and counted; rows without
  * any excluded cell take loops with no per-cell checks.
@@ -45,28 +45,7 @@ export function scanRow(data: Numeric, mask: Uint8Array | undefined, off: number
       if (x < min) min = x;
     }
     if (sum - sum === 0) {
-      out.n = bins;
-      out.sum = sum;
-      out.min = min;
-      out.max = max;
-      out.nan = 0;
-      out.infinite = 0;
-      out.missing = 0;
-      if (min >= 0) {
-        out.sumAbs = sum;
-        out.sumPos = sum;
-        out.negative = 0;
-      } else {
-        let neg = 0, sumPos = 0;
-        for (let j = 0; j < bins; j++) {
-          const x = data[off + j];
-          if (x < 0) neg++;
-          else sumPos += x;
-        }
-        out.negative = neg;
-        out.sumPos = sumPos;
-        out.sumAbs = 2 * sumPos - sum;
-      }
+      cleanScan(data, off, bins, sum, min, max, out);
       return;
     }
   }
@@ -107,6 +86,32 @@ export function scanRow(data: Numeric, mask: Uint8Array | undefined, off: number
   out.missing = miss;
 }
 
+/** Fill `out` for a row known to have no excluded cell, from Σx, min and max (one more loop only when min < 0). */
+export function cleanScan(data: Numeric, off: number, bins: number, sum: number, min: number, max: number, out: RowScan): void {
+  out.n = bins;
+  out.sum = sum;
+  out.min = min;
+  out.max = max;
+  out.nan = 0;
+  out.infinite = 0;
+  out.missing = 0;
+  if (min >= 0) {
+    out.sumAbs = sum;
+    out.sumPos = sum;
+    out.negative = 0;
+    return;
+  }
+  let neg = 0, sumPos = 0;
+  for (let j = 0; j < bins; j++) {
+    const x = data[off + j];
+    if (x < 0) neg++;
+    else sumPos += x;
+  }
+  out.negative = neg;
+  out.sumPos = sumPos;
+  out.sumAbs = 2 * sumPos - sum; // Σ|x| = Σ⁺ − Σ⁻ and Σx = Σ⁺ + Σ⁻
+}
+
 /** Per-bin accumulators the rows add into (length `bins` each). */
 export interface BinAccumulators {
   partialDefined: Int32Array;
@@ -124,10 +129,12 @@ export interface RowMoments {
   /** Defined cells with |x| > tol (raw), and cells equal to the row's maximum. */
   nonzero: number;
   atMax: number;
+  /** True when `hist` was given and every value was an integer in range: it then holds the row's counts. */
+  histOk: boolean;
 }
 
 export function newRowMoments(): RowMoments {
-  return { s2: 0, s3: 0, s4: 0, s2y: 0, nonzero: 0, atMax: 0 };
+  return { s2: 0, s3: 0, s4: 0, s2y: 0, nonzero: 0, atMax: 0, histOk: false };
 }
 
 /**
@@ -140,7 +147,9 @@ export type RowMode = 0 | 1 | 2;
 /**
  * Pass 2 over one row: central moment sums of the raw values, nonzero and at-max counts, and,
  * unless mode 2, the per-bin accumulators of y. `clean` = the row has no excluded cell (then
- * `partialDefined` is not touched: the caller counts the row in `fullRows`). Cost O(bins).
+ * `partialDefined` is not touched: the caller counts the row in `fullRows`). `hist` (zeroed,
+ * length > max; only for clean rows with min ≥ 0) also gets the counting-sort histogram for the
+ * Gini index, saving it a pass. Cost O(bins).
  */
 export function momentsAndBins(
   data: Numeric,
@@ -155,11 +164,35 @@ export function momentsAndBins(
   yMean: number,
   tol: number,
   acc: BinAccumulators,
+  hist: Int32Array | null,
   out: RowMoments,
 ): void {
   let s2 = 0, s3 = 0, s4 = 0, s2y = 0, nz = 0, atMax = 0;
   const bs = acc.sum, bq = acc.sumSq, ba = acc.active, bd = acc.partialDefined;
-  if (clean && mode === 0 && shiftBy === 0) {
+  out.histOk = false;
+  if (hist !== null && clean && mode === 0 && shiftBy === 0) {
+    // As the next loop, plus the Gini histogram; any non-integer value ends the histogram.
+    let intOk = true;
+    for (let j = 0; j < bins; j++) {
+      const x = data[off + j];
+      const d = x - mean;
+      const d2 = d * d;
+      s2 += d2;
+      s3 += d2 * d;
+      s4 += d2 * d2;
+      bs[j] += x;
+      bq[j] += x * x;
+      if (x > tol || x < -tol) {
+        ba[j]++;
+        nz++;
+      }
+      if (x === max) atMax++;
+      const i = x | 0;
+      if (i === x) hist[i]++;
+      else intOk = false;
+    }
+    out.histOk = intOk;
+  } else if (clean && mode === 0 && shiftBy === 0) {
     // The common case: y = x, every cell defined. Branches beat bool-to-number here (V8).
     for (let j = 0; j < bins; j++) {
       const x = data[off + j];
@@ -214,48 +247,4 @@ export function countBinNegatives(data: Numeric, mask: Uint8Array | undefined, o
     const x = data[off + j];
     if (x < 0 && x !== -Infinity && (mask === undefined || mask[off + j] === 0)) binNegative[j]++;
   }
-}
-
-const FNV_PRIME = 16777619;
-const FNV_BASIS = 2166136261;
-const MIX_PRIME = 0x5bd1e995;
-
-/**
- * Two 32-bit hashes over the row's 32-bit words (a Float32 row: one word a cell; Float64: two)
- * and its missing mask: A is FNV-1a taken word by word (Fowler–Noll–Vo, IETF draft
- * draft-eastlake-fnv), B a multiply–xorshift mix with another constant, each run as two lanes
- * (even and odd words) folded at the end; two rows agree on both only if identical or by an
- * accident of about 2⁻⁶⁴ per pair. Writes into `out[0]`, `out[1]`.
- */
-export function hashRow(words: Uint32Array, wordOff: number, wordCount: number, mask: Uint8Array | undefined, off: number, bins: number, out: Uint32Array): void {
-  // Two lanes per hash (even and odd words) break the multiply dependency chain; folded at the end.
-  let a0 = FNV_BASIS, a1 = FNV_BASIS ^ 0x5a5a5a5a, b0 = 0x9747b28c, b1 = 0x3c6ef372;
-  let i = 0;
-  for (; i + 1 < wordCount; i += 2) {
-    const w0 = words[wordOff + i], w1 = words[wordOff + i + 1];
-    a0 = Math.imul(a0 ^ w0, FNV_PRIME);
-    a1 = Math.imul(a1 ^ w1, FNV_PRIME);
-    b0 = Math.imul(b0 ^ w0, MIX_PRIME);
-    b1 = Math.imul(b1 ^ w1, MIX_PRIME);
-    b0 ^= b0 >>> 15;
-    b1 ^= b1 >>> 15;
-  }
-  if (i < wordCount) {
-    a0 = Math.imul(a0 ^ words[wordOff + i], FNV_PRIME);
-    b0 = Math.imul(b0 ^ words[wordOff + i], MIX_PRIME);
-  }
-  if (mask !== undefined) {
-    for (let j = 0; j < bins; j++) {
-      const m = mask[off + j];
-      a0 = Math.imul(a0 ^ m, FNV_PRIME);
-      b0 = Math.imul(b0 ^ m, MIX_PRIME);
-      b0 ^= b0 >>> 15;
-    }
-  }
-  let a = Math.imul(a0 ^ (a1 >>> 16) ^ (a1 << 16), FNV_PRIME) ^ a1;
-  let b = Math.imul(b0 ^ wordCount, MIX_PRIME) ^ b1;
-  b ^= b >>> 13;
-  a ^= a >>> 16;
-  out[0] = a >>> 0;
-  out[1] = b >>> 0;
 }

@@ -4,12 +4,13 @@
  *
  *   1. `createActivityPass(shape, options)` → { addBlock, state }
  *   2. for each block, for each row (unit):
- *        a. scanRow: counts (defined / NaN / ±Inf / missing / negative / nonzero), Σx, Σ|x|,
- *           Σmax(0,x), min, max and cells at max, integer-valued?        (activity-pass-row.ts)
+ *        a. scanRow: counts (defined / NaN / ±Inf / missing / negative), Σx, Σ|x|, Σmax(0,x),
+ *           min, max                                                     (activity-pass-row.ts)
  *        b. hashRow: two 32-bit hashes of the row's float bits           (duplicate units)
- *        c. momentsAndBins: Σd², Σd³, Σd⁴ about the raw mean (two-pass), and the policy-
- *           transformed y added to the per-bin Σy, Σy², active count
+ *        c. momentsAndBins: Σd², Σd³, Σd⁴ about the raw mean (two-pass), nonzero and at-max
+ *           counts, and the policy-transformed y added to the per-bin Σy, Σy², active count
  *        d. rowGini: histogram (integer rows, small range) or sorted copy (activity-pass-gini.ts)
+ *           (skipped for silent and refused units)
  *        e. rowEvents (optional): median, MAD, event bins                  (activity-pass-events.ts)
  *   3. `finishActivityPass(state | states[])`: merge disjoint unit ranges, then per-bin
  *      population sparseness and density, duplicates, totals               (activity-pass-finish.ts)
@@ -31,8 +32,9 @@
 import type { Numeric, UnitBlock } from '../types.ts';
 import { InternalError } from '../errors.ts';
 import { checkPassOptions, emptyPassState, type ActivityPassOptions, type ActivityPassState } from './activity-pass-types.ts';
-import { countBinNegatives, hashRow, momentsAndBins, newRowMoments, newRowScan, scanRow, type RowMode } from './activity-pass-row.ts';
-import { newGiniScratch, rowGini } from './activity-pass-gini.ts';
+import { countBinNegatives, momentsAndBins, newRowMoments, newRowScan, scanRow, type RowMode } from './activity-pass-row.ts';
+import { hashRow, scanHashFloat32 } from './activity-pass-hash.ts';
+import { COUNTING_RANGE_LIMIT, giniFromHistogram, newGiniScratch, rowGini, zeroedHistogram } from './activity-pass-gini.ts';
 import { rowEvents, type RowEvents } from './activity-pass-events.ts';
 
 export type { ActivityPassOptions, ActivityPassState, ActivityPassResult } from './activity-pass-types.ts';
@@ -84,8 +86,13 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
   }
 
   function processRow(data: Numeric, mask: Uint8Array | undefined, off: number, u: number, wpc: number): void {
-    scanRow(data, mask, off, bins, scan);
-    hashRow(words, off * wpc, bins * wpc, mask, off, bins, hash);
+    // Float32 without a mask: scan and hash in one loop (a row with NaN/±Inf is then re-scanned).
+    if (mask === undefined && data instanceof Float32Array) {
+      if (!scanHashFloat32(data, words, off, bins, scan, hash)) scanRow(data, mask, off, bins, scan);
+    } else {
+      hashRow(words, off * wpc, bins * wpc, mask, off, bins, hash);
+      scanRow(data, mask, off, bins, scan);
+    }
     st.hashA[u] = hash[0];
     st.hashB[u] = hash[1];
     const n = scan.n;
@@ -114,7 +121,10 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
       }
     }
     st.changed[u] = changed;
-    momentsAndBins(data, mask, off, bins, clean, mean, scan.max, mode, shiftBy, yMean, tol, acc, mom);
+    // Integer rows ≥ 0 with a small range get their Gini histogram in the same loop.
+    const range = Math.ceil(scan.max);
+    const hist = clean && scan.min >= 0 && range <= COUNTING_RANGE_LIMIT && range <= 2 * n ? zeroedHistogram(gini, range, bins) : null;
+    momentsAndBins(data, mask, off, bins, clean, mean, scan.max, mode, shiftBy, yMean, tol, acc, hist, mom);
     if (mode !== 2 && clean) st.fullRows++;
     if (hasNeg) countBinNegatives(data, mask, off, bins, st.binNegative);
     const nonzero = mom.nonzero;
@@ -141,7 +151,7 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
           st.hoyer[u] = (sn - l1 / Math.sqrt(n * q)) / (sn - 1);
         }
       }
-      st.gini[u] = rowGini(data, mask, off, bins, n, l1, mode, shiftBy, maxAbsY, gini);
+      st.gini[u] = hist !== null && mom.histOk ? giniFromHistogram(hist, range, n, l1) : rowGini(data, mask, off, bins, n, l1, mode, shiftBy, maxAbsY, gini);
     }
 
     const ev = opts.events;

@@ -6,6 +6,8 @@ import { describe, expect, it } from 'vitest';
 import { hasScipy, runPython } from '../helpers/python.ts';
 import { createActivityPass, finishActivityPass, type ActivityPassOptions, type ActivityPassResult } from '../../src/metrics/activity-pass.ts';
 import type { NegativesPolicy } from '../../src/manifest/types.ts';
+import { hashRow, scanHashFloat32 } from '../../src/metrics/activity-pass-hash.ts';
+import { newRowScan } from '../../src/metrics/activity-pass-row.ts';
 import { blocksOf, close, mixedMatrix, runPass, toArrays } from './activity-pass-fixtures.ts';
 
 // Reference per unit and per bin computed by numpy/scipy from the same matrix: scipy.stats.skew
@@ -175,5 +177,37 @@ describe('block size and worker splits do not change results', () => {
     expect(() => finishActivityPass(a.state())).toThrow(/unit 10 was never added/);
     expect(() => finishActivityPass([a.state(), a.state()])).toThrow(/unit 0 is in two merged states/);
     expect(() => a.addBlock(blocksOf(data, mask, m.units, m.bins, 1, 3, 4).next().value!)).toThrow(/unit 3 added twice/);
+  });
+});
+
+describe('row hash', () => {
+  // Self-consistency (no outside source): the fused float32 scan+hash loop must give the same
+  // hashes as the general word loop, for even and odd row lengths, or duplicates would be missed
+  // between a row with NaN (general loop) and one without.
+  it('fused float32 scan+hash equals the word-by-word hash', () => {
+    for (const bins of [1, 5, 6, 301]) {
+      const data = Float32Array.from({ length: bins * 2 }, (_, i) => ((i * 7919) % 13) - 3);
+      const words = new Uint32Array(data.buffer);
+      const a = new Uint32Array(2), b = new Uint32Array(2);
+      hashRow(words, bins, bins, undefined, bins, bins, a);
+      expect(scanHashFloat32(data, words, bins, bins, newRowScan(), b)).toBe(true);
+      expect(Array.from(b)).toEqual(Array.from(a));
+      // and a one-bit change changes both hashes
+      const c = new Uint32Array(2);
+      words[bins + (bins >> 1)] ^= 1;
+      hashRow(words, bins, bins, undefined, bins, bins, c);
+      expect(c[0]).not.toBe(a[0]);
+      expect(c[1]).not.toBe(a[1]);
+    }
+  });
+
+  it('a float32 duplicate of a row holding NaN is found (general loop on both)', () => {
+    const bins = 9;
+    const data = new Float32Array(3 * bins).map((_, i) => (i * 37) % 11);
+    data[4] = NaN;
+    data.copyWithin(2 * bins, 0, bins);
+    const pass = createActivityPass({ units: 3, bins }, { zeroTolerance: 0, negatives: 'keep', events: null, minNonzero: 0 });
+    pass.addBlock({ unitStart: 0, units: 3, bins, data });
+    expect(finishActivityPass(pass.state()).duplicates).toEqual([[0, 2]]);
   });
 });
