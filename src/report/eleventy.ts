@@ -37,7 +37,7 @@ export interface PageData {
   model: unknown;
 }
 
-interface SharedConfig {
+export interface SharedConfig {
   configureLacunaSite(cfg: EleventyUserConfig): void;
 }
 
@@ -47,7 +47,7 @@ export const TEMPLATES_DIR = fileURLToPath(new URL('./templates/', import.meta.u
 let shared: Promise<SharedConfig> | null = null;
 
 /** Load the shared configuration from the top-level `.eleventy.js` (one place for both entry points). */
-function sharedConfig(): Promise<SharedConfig> {
+export function loadSharedConfig(): Promise<SharedConfig> {
   shared ??= import(new URL('../../.eleventy.js', import.meta.url).href).then((mod: Partial<SharedConfig>) => {
     if (typeof mod.configureLacunaSite !== 'function') throw new InternalError('.eleventy.js does not export configureLacunaSite');
     return mod as SharedConfig;
@@ -70,7 +70,7 @@ function checkFile(file: string): void {
  */
 export async function writePages(pages: PageData[], outDir: string): Promise<void> {
   for (const p of pages) checkFile(p.file);
-  const { configureLacunaSite } = await sharedConfig();
+  const { configureLacunaSite } = await loadSharedConfig();
   const elev = new Eleventy(TEMPLATES_DIR, outDir, {
     quietMode: true,
     configPath: '',

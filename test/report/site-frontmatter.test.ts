@@ -10,8 +10,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Eleventy from '@11ty/eleventy';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { configureLacunaSite } from '../../.eleventy.js';
-import { writePages } from '../../src/report/eleventy.ts';
+import { loadSharedConfig, writePages } from '../../src/report/eleventy.ts';
 
 let tmp = '';
 beforeAll(async () => {
@@ -29,6 +28,7 @@ async function build(engine: string, locked: boolean): Promise<{ error: unknown;
   const output = join(tmp, `out-${engine}-${locked}`);
   await mkdir(input, { recursive: true });
   await writeFile(join(input, 'page.njk'), canary(engine));
+  const { configureLacunaSite } = await loadSharedConfig(); // the top-level .eleventy.js
   const elev = new Eleventy(input, output, { quietMode: true, configPath: '', config: locked ? (cfg) => configureLacunaSite(cfg) : undefined });
   elev.disableLogger();
   let error: unknown = null;
