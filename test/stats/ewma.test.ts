@@ -1,6 +1,7 @@
 /** EWMA chart: a worked example by hand from Roberts (1959) / NIST e-Handbook §6.3.2.4 formulas. */
 import { describe, expect, it } from 'vitest';
 import { ewmaChart } from '../../src/stats/ewma.ts';
+import { createRandom } from '../../src/stats/random.ts';
 
 describe('ewmaChart', () => {
   it('worked by hand: μ₀ = 10, σ = 1, λ = 0.2, L = 3, x = [11, 9, 12, 14]', () => {
@@ -32,6 +33,40 @@ describe('ewmaChart', () => {
     expect(s.z).toEqual([0.5, -3.5]);
     expect(s.lower).toEqual([-3, -3]);
     expect(s.firstSignal).toBe(1);
+  });
+
+  it('estimated centre, worked by hand: λ = 0.5, m = 2 (μ̂₀ = mean of x₁, x₂), σ = 1, L = 2', () => {
+    // c_{t,i} = 0.5·0.5^{t−i}[i ≤ t] − (1 − 0.5^t)/2·[i ≤ 2]  (derivation in ewma.ts):
+    //   t=1: c = [0.5 − 0.25, −0.25] = [0.25, −0.25]            → Σc² = 0.125
+    //   t=2: c = [0.25 − 0.375, 0.5 − 0.375] = [−0.125, 0.125]  → Σc² = 0.03125
+    //   t=3: c = [0.125 − 0.4375, 0.25 − 0.4375, 0.5]           → 0.09765625 + 0.03515625 + 0.25 = 0.3828125
+    // x = [1, 3, 4]: μ̂₀ = 2; z = [1.5, 2.25, 3.125]; limits 2 ± 2·√Σc²; z3 − 2 = 1.125 < 2·√0.3828 = 1.2374.
+    const r = ewmaChart([1, 3, 4], { mu0: 2, sigma: 1, lambda: 0.5, L: 2, baselineCount: 2 });
+    expect(r.z).toEqual([1.5, 2.25, 3.125]);
+    [0.125, 0.03125, 0.3828125].forEach((v, i) => expect(r.upper[i]).toBeCloseTo(2 + 2 * Math.sqrt(v), 12));
+    expect(r.firstSignal).toBeNull();
+    // m = 1, t = 1: z₁ = μ̂₀ = x₁ exactly in theory, variance 0 → not tested (no spurious signal).
+    const one = ewmaChart([0.3, 0.3], { mu0: 0.3, sigma: 1, lambda: 0.2, L: 3, baselineCount: 1 });
+    expect(one.signal[0]).toBe(false);
+    expect(() => ewmaChart([1, 2], { mu0: 0, sigma: 1, lambda: 0.2, L: 3, baselineCount: 3 })).toThrow(/baselineCount/);
+  });
+
+  it('estimated centre: the variance factor matches a seeded simulation of z_t − μ̂₀ (derivation check)', () => {
+    // 40,000 in-control series N(0, 1), λ = 0.2, m = 3; SD of (z_t − μ̂₀)/(half-width/L) should be 1.
+    // Monte Carlo SE of an SD estimate with 40,000 draws ≈ 1/√(2·40,000) = 0.0035; tolerance 4 SE = 0.014.
+    const rng = createRandom(11);
+    const n = 8;
+    const reps = 40000;
+    const ss = new Float64Array(n);
+    let half: number[] = [];
+    for (let r = 0; r < reps; r++) {
+      const x = Array.from({ length: n }, () => rng.normal());
+      const mu = (x[0] + x[1] + x[2]) / 3;
+      const c = ewmaChart(x, { mu0: mu, sigma: 1, lambda: 0.2, L: 1, baselineCount: 3 });
+      c.z.forEach((z, t) => (ss[t] += (z - mu) ** 2));
+      half = c.upper.map((u) => u - mu);
+    }
+    for (let t = 0; t < n; t++) expect(Math.abs(Math.sqrt(ss[t] / reps) / half[t] - 1)).toBeLessThan(0.014);
   });
 
   it('refuses non-finite x and bad parameters', () => {
