@@ -9,8 +9,11 @@
  *   laid end to end; the last block is truncated so the resample has exactly n items
  *   (it keeps its first n − (k − 1)ℓ items). No wrap-around (that would be the circular scheme).
  *
- * For sums (mean, ratio) no resample is materialised: iid accumulates the drawn items; moving
- * blocks take each block's sum as a difference of compensated prefix sums, O(1) per block.
+ * With ℓ = 1 both schemes draw the same indices (`rng.int(n)` each), so they give the same resamples.
+ *
+ * For sums (mean, ratio) no resample is materialised: iid (and ℓ = 1) accumulates the drawn
+ * items; moving blocks take each block's sum as a difference of compensated prefix sums, O(1)
+ * per block.
  * Cost: iid O(n) per resample; moving-block O(n/ℓ) per resample (+ O(n) once for the prefixes).
  */
 import type { Random } from './random.ts';
@@ -52,7 +55,8 @@ export function resampleRatioOfSums(
 ): Float64Array {
   const n = num.length;
   const out = new Float64Array(resamples);
-  if (scheme === 'iid') {
+  if (scheme === 'iid' || blockLength === 1) {
+    // Moving blocks of length 1 are iid draws: starts `rng.int(n)`, the very same stream.
     const idx = new Int32Array(n);
     for (let b = 0; b < resamples; b++) {
       rng.fillInt(n, idx);

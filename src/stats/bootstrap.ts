@@ -25,6 +25,12 @@
  * estimate, fewer than 2 defined bootstrap values, an undefined BCa acceleration, or a
  * resampling unit that does not match the scheme ('blocks-of-bins' ⇔ 'moving-block').
  * Zeros and negative values are ordinary values.
+ *
+ * Cost (B resamples, n items): mean/ratio iid O(nB) draws; moving-block O(nB/ℓ) + O(n√n) for
+ * the automatic ℓ; BCa adds O(n). `function`: O(nB) copying + B calls of fn; BCa adds n calls
+ * (iid) or ⌊n/ℓ⌋ calls (blocks) of fn on n − 1 (n − ℓ) items. Measured with
+ * scripts/bench-bootstrap.ts: n = 50,000, B = 10,000, moving blocks, automatic ℓ ≈ 48, BCa —
+ * about 0.1–0.3 s on this project's two-core machines; iid (or ℓ = 1) about 4–6 s (5·10⁸ draws).
  */
 import type { IntervalRecord, ResamplingUnit } from '../types.ts';
 import { fsum } from '../metrics/fsum.ts';

@@ -173,6 +173,21 @@ describe('bootstrapInterval: sufficient statistics against materialised resample
     expect(r.se).toBeLessThan(1e-13);
   });
 
+  it('moving blocks of length 1 are iid resampling: same seed, same distribution (percentile limits equal)', () => {
+    // Derived: with ℓ = 1 each of the n blocks starts at rng.int(n − 1 + 1) = rng.int(n), as iid draws.
+    const common = { method: 'percentile', level: 0.9, resamples: 300, seed: 4 } as const;
+    const iid = bootstrapInterval({ ...common, statistic: { kind: 'mean', values: x }, resampling: 'iid', resamplingUnit: 'bins' });
+    const mb1 = bootstrapInterval({
+      ...common,
+      statistic: { kind: 'function', values: x, fn: meanOf },
+      resampling: 'moving-block',
+      resamplingUnit: 'blocks-of-bins',
+      blockLength: 1,
+    });
+    expect(mb1.lower).toBeCloseTo(iid.lower, 12);
+    expect(mb1.upper).toBeCloseTo(iid.upper, 12);
+  });
+
   it('ratio with unit denominators equals the mean, bit for bit (same draws, Σ1 = n exactly)', () => {
     const common = { ...base, resampling: 'moving-block', resamplingUnit: 'blocks-of-bins', blockLength: 3 } as const;
     const a = bootstrapInterval({ ...common, statistic: { kind: 'mean', values: x } });
