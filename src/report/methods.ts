@@ -102,7 +102,7 @@ function measuresParagraph(result: AuditResult, c: ReturnType<typeof citer>): st
     refuse: 'Negative values were not allowed: a dataset with any would have been refused.',
   };
   if (neg && result.kind === 'activity') s.push(negText[neg] ?? `Negative values: policy ${u(neg)}.`);
-  if (neg && result.kind === 'weights') s.push(`Negative weights were handled with the manifest’s policy “${u(neg)}”.`);
+  if (result.kind === 'weights') s.push('Weights keep their sign; the Hoyer and Gini measures and density use their magnitudes |*w*|.');
   if (has('population_sparseness') || has('lifetime_sparseness') || has('activity_ratio')) {
     s.push(
       `For a non-negative response vector *r* of length *n*, the activity ratio is *a* = (Σ*r*ᵢ/*n*)² / Σ(*r*ᵢ²/*n*) (${c.cite('treves1991', 'rolls1995')}) ` +
@@ -113,7 +113,9 @@ function measuresParagraph(result: AuditResult, c: ReturnType<typeof citer>): st
   if (has('population_sparseness')) defs.push(`population sparseness is the mean over defined ${axis === 'stimuli' ? 'stimuli' : 'time bins'} of each ${axis === 'stimuli' ? 'stimulus' : 'bin'}’s sparseness *S* across units`);
   if (has('lifetime_sparseness')) defs.push(`lifetime sparseness is the mean over defined units of each unit’s sparseness *S* across ${axis === 'stimuli' ? 'stimuli' : 'bins'}`);
   if (defs.length) s.push(`${defs.join('; ').replace(/^./, (ch) => ch.toUpperCase())} (${c.cite('willmore2001')}).`);
-  if (has('kurtosis')) {
+  if (has('kurtosis') && result.kind === 'weights') {
+    s.push(`Kurtosis is the excess kurtosis *g*₂ = *m*₄/*m*₂² − 3 of all weights of a dataset taken together, with *m*ₖ the *k*-th central moment (the moment estimator without small-sample adjustment; ${c.cite('joanes1998')}); the layer table gives it per layer.`);
+  } else if (has('kurtosis')) {
     const minNz = num(p.min_nonzero);
     const over = result.kind === 'weights' ? 'each output unit’s weights' : `${axis === 'stimuli' ? 'stimuli' : 'bins'}`;
     s.push(
@@ -125,7 +127,10 @@ function measuresParagraph(result: AuditResult, c: ReturnType<typeof citer>): st
   if (has('hoyer')) perUnit.push(`Hoyer sparseness (√*n* − ‖*x*‖₁/‖*x*‖₂)/(√*n* − 1) (${c.cite('hoyer2004')})`);
   if (has('gini')) perUnit.push(`the Gini index of sparsity (${c.cite('hurley2009')})`);
   if (has('activity_ratio')) perUnit.push('the activity ratio *a*');
-  if (perUnit.length) s.push(`${list(perUnit).replace(/^./, (ch) => ch.toUpperCase())} ${perUnit.length === 1 ? 'was' : 'were'} computed per ${result.kind === 'weights' ? 'output unit' : 'unit'} and averaged over units.`);
+  if (perUnit.length) {
+    const how = result.kind === 'weights' ? 'over all weights of a dataset taken together (and per layer in the layer table)' : 'per unit and averaged over units';
+    s.push(`${list(perUnit).replace(/^./, (ch) => ch.toUpperCase())} ${perUnit.length === 1 ? 'was' : 'were'} computed ${how}.`);
+  }
   if (has('density')) s.push(`Density is the fraction of all elements whose magnitude is above the zero tolerance.`);
   if (has('graph_density')) s.push('Graph density reads each square layer as a directed graph with an edge where a weight is above the zero tolerance: *E*/(*N*(*N* − 1)), self-loops left out.');
   s.push('Where a measure is undefined for a bin or unit (for example 0/0 for an all-zero vector), that item was left out of the measure and counted.');
@@ -160,7 +165,7 @@ function intervalParagraph(result: AuditResult, c: ReturnType<typeof citer>): st
   );
   const resampledBy = (kind: string) => uniq(recs.filter((x) => x.r.resampling === kind).map((x) => labelOf(x.name)));
   const units = resampledBy('units');
-  if (units.length) s.push(`For ${list(units)}, ${result.kind === 'weights' ? 'output units' : 'units'} were resampled with replacement.`);
+  if (units.length) s.push(`For ${list(units)}, units were resampled with replacement.`);
   const stim = resampledBy('stimuli');
   if (stim.length) s.push(`For ${list(stim)}, stimuli were resampled with replacement.`);
   const bins = resampledBy('bins');

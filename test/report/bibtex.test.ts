@@ -37,7 +37,9 @@ describe.each([
   const bib = bibtex(citations);
 
   it('cites by key, and each cited work appears in the text and once in the BibTeX', () => {
-    expect(citations.length).toBeGreaterThan(3);
+    // Weights audits cite the three measure papers (Hoyer, Hurley & Rickard, Joanes & Gill) and no
+    // bootstrap work (no sampling interval); activity audits cite more.
+    expect(citations.length).toBeGreaterThanOrEqual(3);
     for (const key of citations) {
       expect(plain).toContain(WORKS[key]!.short);
       expect(bib.match(new RegExp(`@\\w+\\{${key},`, 'g'))?.length).toBe(1);
