@@ -8,6 +8,7 @@
  * 0.02 and 4 spikes a bin. Prints the whole pass's throughput and, on the same blocks, each row
  * loop on its own (scan; hash; moments + per-bin sums + Gini histogram; Gini from the histogram).
  */
+import os from 'node:os';
 import { performance } from 'node:perf_hooks';
 import { createActivityPass, finishActivityPass } from '../src/metrics/activity-pass.ts';
 import { momentsAndBins, newRowMoments, newRowScan, scanRow } from '../src/metrics/activity-pass-row.ts';
@@ -57,6 +58,7 @@ const acc = { partialDefined: new Int32Array(bins), sum: new Float64Array(bins),
 const words = new Uint32Array(buf.buffer);
 const hash = new Uint32Array(2);
 let whole = 0;
+let wholeCpu = 0;
 let genMs = 0;
 for (let u0 = 0; u0 < units; u0 += blockUnits) {
   const rows = Math.min(blockUnits, units - u0);
@@ -64,8 +66,11 @@ for (let u0 = 0; u0 < units; u0 += blockUnits) {
   fillBlock(buf, rows, rand);
   const t0 = performance.now();
   genMs += t0 - g0;
+  const c0 = process.cpuUsage();
   pass.addBlock({ unitStart: u0, units: rows, bins, data: rows === blockUnits ? buf : buf.subarray(0, rows * bins) });
+  const c1 = process.cpuUsage(c0);
   whole += performance.now() - t0;
+  wholeCpu += (c1.user + c1.system) / 1000;
   // The row loops one by one, on the same (cached-from-memory) block.
   for (let r = 0; r < rows; r++) {
     const off = r * bins;
@@ -96,7 +101,9 @@ const bytes = units * bins * 4;
 const gbps = (ms: number) => (bytes / 1e9 / (ms / 1000)).toFixed(2);
 console.log(`activity pass: ${units} units × ${bins} bins float32 (${(bytes / 2 ** 20).toFixed(0)} MiB), blocks of ${blockUnits} units, seed ${seed}`);
 console.log(`  generation (not timed below): ${(genMs / 1000).toFixed(1)} s`);
-console.log(`  whole pass (addBlock):        ${whole.toFixed(0)} ms  → ${gbps(whole)} GB/s`);
+console.log(`  whole pass (addBlock):        ${whole.toFixed(0)} ms  → ${gbps(whole)} GB/s wall`);
+console.log(`                                ${wholeCpu.toFixed(0)} ms CPU → ${gbps(wholeCpu)} GB/s per CPU-second (less sensitive to other load)`);
+console.log(`  load average at the end: ${os.loadavg().map((x) => x.toFixed(1)).join(' ')} on ${os.cpus().length} cores`);
 console.log(`  finish:                       ${finishMs.toFixed(1)} ms`);
 for (const [k, ms] of Object.entries(parts)) console.log(`  ${k.padEnd(8)} alone:               ${ms.toFixed(0)} ms  → ${gbps(ms)} GB/s`);
 const momentPart = parts['scan+hash'] + parts.moments;
