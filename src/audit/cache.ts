@@ -11,7 +11,8 @@
  * never sees half an entry; a cache entry that fails to parse is treated as missing.
  */
 import { createHash } from 'node:crypto';
-import { createReadStream, existsSync, mkdirSync, readFileSync, renameSync, statSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, renameSync, statSync, writeFileSync } from 'node:fs';
+import { open } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { DatasetResult, FileProvenance } from '../types.ts';
 import { canonicalJson } from './versions.ts';
@@ -36,11 +37,24 @@ function readJson<T>(file: string): T | null {
   }
 }
 
+/**
+ * SHA-256 of a file, read in 4 MiB pieces into one reused buffer (a read stream allocates a fresh
+ * buffer per piece, and first touch of new memory is slow on small VMs).
+ */
 export async function sha256File(path: string, onBytes?: (n: number) => void): Promise<string> {
   const hash = createHash('sha256');
-  for await (const chunk of createReadStream(path, { highWaterMark: 4 << 20 })) {
-    hash.update(chunk as Buffer);
-    onBytes?.((chunk as Buffer).length);
+  const buf = new Uint8Array(4 << 20);
+  const fh = await open(path, 'r');
+  try {
+    for (let pos = 0; ; ) {
+      const { bytesRead } = await fh.read(buf, 0, buf.length, pos);
+      if (bytesRead === 0) break;
+      hash.update(buf.subarray(0, bytesRead));
+      pos += bytesRead;
+      onBytes?.(bytesRead);
+    }
+  } finally {
+    await fh.close();
   }
   return hash.digest('hex');
 }
