@@ -47,6 +47,8 @@ export interface BuildSummary {
   computed: number;
   cached: number;
   rendered: string[];
+  /** Wall time of each stage in ms (the benchmark prints these). */
+  timings: { manifests: number; hash: number; compute: number; assemble: number; render: number };
 }
 
 export function parseShard(text: string): { index: number; count: number } {
@@ -124,8 +126,17 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
   const now = o.now ?? (() => new Date());
   const shard = o.shard ? parseShard(o.shard) : null;
 
+  const timings = { manifests: 0, hash: 0, compute: 0, assemble: 0, render: 0 };
+  let t0 = performance.now();
+  const lap = (k: keyof typeof timings) => {
+    const t = performance.now();
+    timings[k] = t - t0;
+    t0 = t;
+  };
+
   // 1. Manifests.
   const manifests = await loadAll(workspace, o.audit);
+  lap('manifests');
 
   // 2. Inputs.
   const allFiles = manifests.flatMap((m) => m.datasets.flatMap((d) => d.files.map((abs, i) => ({ abs, rel: d.relFiles[i] }))));
@@ -136,6 +147,7 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
     hashStep.advance(1);
   }
   hashStep.done();
+  lap('hash');
 
   // 3. Compute.
   const jobs: (DatasetJob & { key: string; bytes: number })[] = [];
@@ -162,13 +174,14 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
   } else {
     progress.info(`all ${mine.length} dataset results taken from the cache`);
   }
+  lap('compute');
   if (shard) {
     progress.info(`shard ${shard.index}/${shard.count}: ${todo.length} computed, ${cached} already cached; run a plain \`lacuna build\` to render`);
-    return { audits: [], computed: todo.length, cached, rendered: [] };
+    return { audits: [], computed: todo.length, cached, rendered: [], timings };
   }
 
   // 4–5. Assemble and version.
-  const summary: BuildSummary = { audits: [], computed: todo.length, cached, rendered: [] };
+  const summary: BuildSummary = { audits: [], computed: todo.length, cached, rendered: [], timings };
   const commit = gitCommit(workspace);
   for (const m of manifests) {
     const datasets = jobs.filter((j) => j.manifest === m).map((j) => results.get(j.key)!);
@@ -202,8 +215,11 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
     summary.audits.push({ audit: m.audit, version, reused: false, datasets: datasets.length });
   }
 
+  lap('assemble');
+
   // 6. Render.
   summary.rendered = await renderSite(o.out, workspace, manifests.map((m) => m.audit), progress);
+  lap('render');
   return summary;
 }
 
