@@ -213,10 +213,15 @@ export interface DriftPoint {
   n: number;
   /** True when the month had too few units or bins; shown, never hidden. */
   thin: boolean;
-  /** Chart statistic (EWMA z or CUSUM S_H/S_L) and whether it signals. */
+  /**
+   * Chart statistic and whether it signals. EWMA: `chartValue` = z_t, `chartUpper`/`chartLower` =
+   * the control limits at that month. CUSUM: `chartUpper` = S_H, `chartLower` = S_L,
+   * `chartValue` = max(S_H, S_L), and `chartLimit` = the decision interval H = cusum_h·σ.
+   */
   chartValue: number | null;
   chartUpper?: number | null;
   chartLower?: number | null;
+  chartLimit?: number | null;
   signal: boolean;
 }
 

@@ -170,7 +170,7 @@ function buildSeries(
   } else {
     const c = cusumChart(x, { mu0, sigma, k: settings.cusum_k, h: settings.cusum_h });
     idx.forEach((pi, k) =>
-      Object.assign(points[pi], { chartValue: Math.max(c.high[k], c.low[k]), chartUpper: c.high[k], chartLower: c.low[k], signal: c.signal[k] }),
+      Object.assign(points[pi], { chartValue: Math.max(c.high[k], c.low[k]), chartUpper: c.high[k], chartLower: c.low[k], chartLimit: c.H, signal: c.signal[k] }),
     );
     s.firstSignal = c.firstSignal === null ? null : points[idx[c.firstSignal]].month;
   }

@@ -50,6 +50,7 @@ export function driftSeriesChart(s: DriftSeries, drift: DriftResult): ChartSpec 
     chartValue: p.chartValue,
     chartUpper: p.chartUpper ?? null,
     chartLower: p.chartLower ?? null,
+    chartLimit: p.chartLimit ?? null,
   }));
   const x = { field: 'month', type: 'ordinal', title: 'month', scale: { domain: months }, axis: { labelAngle: months.length > 8 ? -40 : 0 } };
   const y = { type: 'quantitative', title: measureLabel(s.measure), scale: { zero: false } };
@@ -138,7 +139,21 @@ export function driftSeriesChart(s: DriftSeries, drift: DriftResult): ChartSpec 
       shape: { field: 'line', type: 'nominal', title: null, scale: { domain: ['chartValue', 'chartUpper', 'chartLower'], range: ['circle', 'triangle-up', 'triangle-down'] } },
     },
   };
-  const spec = { vconcat: [{ width: 520, height: 200, ...main }, cusum], resolve: { scale: { strokeDash: 'independent', shape: 'independent', color: 'independent' } } };
+  const { width: _w, height: _h, ...cusumLayer } = cusum;
+  const hLimit = rows.find((r) => r.chartLimit !== null && r.chartLimit !== undefined)?.chartLimit ?? null;
+  const cusumPanel =
+    hLimit === null
+      ? cusum
+      : {
+          width: 520,
+          height: 110,
+          layer: [
+            cusumLayer,
+            { data: { values: [{ h: hLimit, label: `H = ${hLimit.toPrecision(3)}` }] }, mark: { type: 'rule', strokeDash: [6, 2], color: ROLE.limit }, encoding: { y: { field: 'h', type: 'quantitative' } } },
+            { data: { values: [{ h: hLimit, label: `decision interval H = ${hLimit.toPrecision(3)}` }] }, mark: { type: 'text', align: 'left', dx: 4, dy: -6, fontSize: 10 }, encoding: { x: { value: 0 }, y: { field: 'h', type: 'quantitative' }, text: { field: 'label', type: 'nominal' } } },
+          ],
+        };
+  const spec = { vconcat: [{ width: 520, height: 200, ...main }, cusumPanel], resolve: { scale: { strokeDash: 'independent', shape: 'independent', color: 'independent' } } };
   return { id, title, description, datasetId: null, spec: frame(title, description, spec, { noSize: true, subtitle }) };
 }
 

@@ -4,7 +4,7 @@
  */
 import type { DriftResult, VersionComparison } from '../types.ts';
 import type { ChartModel } from './site-charts.ts';
-import { formatCount, formatInterval, formatLevel, formatNumber, formatValue, measureLabel } from './site-format.ts';
+import { NONE, formatCount, formatInterval, formatLevel, formatNumber, formatValue, measureLabel } from './site-format.ts';
 
 export interface DriftSeriesModel {
   heading: string;
@@ -86,7 +86,7 @@ export function driftModel(drift: DriftResult, charts: ChartModel[], anchorFor: 
           thin: p.thin ? 'thin month' : '',
           datasets: p.datasets.join(', '),
           chartValue: formatNumber(p.chartValue),
-          limits: limits(p.chartUpper, p.chartLower),
+          limits: s.chart === 'cusum' ? cusumText(p.chartUpper, p.chartLower, p.chartLimit) : limits(p.chartUpper, p.chartLower),
           signal: p.signal ? 'signal' : '',
         })),
       };
@@ -136,4 +136,10 @@ export function compareModel(c: VersionComparison): CompareModel {
       })),
     })),
   };
+}
+
+/** CUSUM columns: the two one-sided sums against the decision interval H. */
+function cusumText(high: number | null | undefined, low: number | null | undefined, h: number | null | undefined): string {
+  if (high === null || high === undefined || low === null || low === undefined) return NONE;
+  return `S_H ${formatNumber(high)}, S_L ${formatNumber(low)}${h === null || h === undefined ? '' : ` (signal above H = ${formatNumber(h)})`}`;
 }

@@ -51,6 +51,17 @@ describe('buildDrift: change screening on twelve months', () => {
     });
   }
 
+  it('CUSUM points carry S_H, S_L and the decision interval H = cusum_h·σ (Page 1954)', () => {
+    const s = series(buildDrift(stepped, { ...DEFAULTS, chart: 'cusum' }, OPTS), 'lifetime_sparseness');
+    const withValue = s.points.filter((p) => p.chartValue !== null);
+    expect(withValue.length).toBeGreaterThan(0);
+    for (const p of withValue) {
+      expect(p.chartLimit).toBeCloseTo(DEFAULTS.cusum_h * s.baseline!.sd, 14);
+      expect(p.chartValue).toBe(Math.max(p.chartUpper!, p.chartLower!));
+      expect(p.signal).toBe(p.chartValue! > p.chartLimit!);
+    }
+  });
+
   it('EWMA points carry z and the limits; the baseline is the first three months', () => {
     const s = series(buildDrift(stepped, DEFAULTS, OPTS), 'lifetime_sparseness');
     expect(s.baselineMonths).toEqual(['2024-01', '2024-02', '2024-03']);

@@ -32,7 +32,11 @@ function dataValues(spec: unknown): Record<string, unknown>[][] {
 function cusumVariant(): AuditResult {
   const r = activityFixture();
   r.drift!.chart = 'cusum';
-  for (const s of r.drift!.series) s.chart = 'cusum';
+  for (const s of r.drift!.series) {
+    s.chart = 'cusum';
+    // CUSUM points carry the decision interval H (DriftPoint.chartLimit); 0.05 is an arbitrary test value.
+    for (const p of s.points) p.chartLimit = 0.05;
+  }
   return r;
 }
 
@@ -183,5 +187,15 @@ describe('purity and rendering helpers', () => {
     const okabeIto = ['#000000', '#E69F00', '#56B4E9', '#009E73', '#F0E442', '#0072B2', '#D55E00', '#CC79A7'];
     expect(Object.values(PALETTE).sort()).toEqual([...okabeIto].sort());
     for (const c of CATEGORY) expect(okabeIto).toContain(c);
+  });
+});
+
+describe('CUSUM drift chart', () => {
+  it('draws the decision interval H from the points, labelled with its value', () => {
+    const r = cusumVariant();
+    const chart = buildCharts(r).find((c) => c.id.startsWith('drift--'))!;
+    const text = JSON.stringify(chart.spec);
+    expect(text).toContain('"h":0.05');
+    expect(text).toContain('decision interval H = 0.0500');
   });
 });
