@@ -13,7 +13,7 @@
  */
 import { cpus } from 'node:os';
 import { execFileSync } from 'node:child_process';
-import { existsSync, mkdirSync, renameSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, renameSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { findManifests, loadManifest } from '../manifest/index.ts';
 import type { ResolvedManifest } from '../manifest/types.ts';
@@ -225,14 +225,22 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
 
 /** Pages for every version missing from `out`, then the version lists and the site index. */
 export async function renderSite(out: string, workspace: string, audits: string[], progress: Progress): Promise<string[]> {
-  const { renderVersion, renderAuditIndex, renderSiteIndex, copyAssets } = await import('../report/site.ts');
-  const { buildCharts, renderChartSvgs } = await import('../charts/index.ts');
   mkdirSync(out, { recursive: true });
   const rendered: string[] = [];
   const pending: { audit: string; version: string }[] = [];
   for (const audit of audits) {
     for (const v of listVersions(workspace, audit)) if (!existsSync(join(out, audit, v.version, 'index.html'))) pending.push({ audit, version: v.version });
   }
+  // The index pages change only when a version was added (or they are missing): a rebuild with
+  // unchanged inputs then loads neither the chart renderer nor Eleventy.
+  const indexMissing = (dir: string) => !existsSync(join(dir, 'index.html'));
+  const touched = new Set(pending.map((p) => p.audit));
+  const allAudits = existsSync(join(workspace, 'records')) ? readdirSync(join(workspace, 'records')).filter((a) => !a.startsWith('.')).sort() : [];
+  if (touched.size === 0 && !indexMissing(out) && allAudits.every((a) => !indexMissing(join(out, a))) && existsSync(join(out, 'assets'))) {
+    return rendered;
+  }
+  const { renderVersion, renderAuditIndex, renderSiteIndex, copyAssets } = await import('../report/site.ts');
+  const { buildCharts, renderChartSvgs } = await import('../charts/index.ts');
   const step = progress.step('rendering pages', pending.length);
   for (const p of pending) {
     const all = listVersions(workspace, p.audit);
@@ -258,11 +266,13 @@ export async function renderSite(out: string, workspace: string, audits: string[
   }
   step.done();
   const siteAudits = [];
-  for (const audit of audits) {
+  for (const audit of allAudits) {
     const versions = listVersions(workspace, audit);
     if (!versions.length) continue;
     const latest = readRecord(workspace, audit, versions[versions.length - 1].version).result;
-    await renderAuditIndex({ audit, title: latest.title, versions, latest: latest.version }, join(out, audit));
+    if (touched.has(audit) || indexMissing(join(out, audit))) {
+      await renderAuditIndex({ audit, title: latest.title, versions, latest: latest.version }, join(out, audit));
+    }
     const findings = { exclude: 0, caution: 0, notice: 0 };
     for (const d of latest.datasets) for (const f of d.findings) findings[f.level] += 1;
     siteAudits.push({ audit, title: latest.title, latest: latest.version, created: latest.created, datasets: latest.datasets.length, findings });
