@@ -23,7 +23,7 @@
  */
 import { spawn } from 'node:child_process';
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync, readSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
-import { cpus, tmpdir, totalmem } from 'node:os';
+import { cpus, loadavg, tmpdir, totalmem } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createRandom, type Random } from '../src/stats/random.ts';
@@ -42,9 +42,17 @@ function option(name: string, fallback: string): string {
 // ---------------------------------------------------------------------------- child: one build
 if (process.argv.includes('--child-build')) {
   const { buildWorkspace } = await import('../src/audit/build.ts');
-  const { createProgress } = await import('../src/cli/progress.ts');
-  const s = await buildWorkspace({ workspace: option('child-build', ''), out: option('out', ''), workers: 'auto', progress: createProgress({ quiet: true }) });
-  process.stdout.write(`${JSON.stringify({ timings: s.timings, computed: s.computed, cached: s.cached })}\n`);
+  const startupMs = performance.now(); // since process start: node, tsx and the build's imports
+  let computeRssKiB: number | null = null;
+  // A silent Progress that notes the peak RSS when the compute step ends (before rendering).
+  const progress = {
+    info() {},
+    step(label: string) {
+      return { advance() {}, done() { if (label.startsWith('computing')) computeRssKiB = process.resourceUsage().maxRSS; } };
+    },
+  };
+  const s = await buildWorkspace({ workspace: option('child-build', ''), out: option('out', ''), workers: 'auto', progress });
+  process.stdout.write(`${JSON.stringify({ timings: s.timings, computed: s.computed, startupMs, computeRssKiB })}\n`);
   process.exit(0);
 }
 
@@ -125,6 +133,8 @@ Seeded synthetic data written by scripts/bench.ts.
 // ---------------------------------------------------------------------------- 3. timed children
 interface Run {
   wallMs: number;
+  /** User + system CPU time (from /usr/bin/time; null without it). */
+  cpuMs: number | null;
   peakRssKiB: number | null;
   stdout: string;
 }
@@ -159,7 +169,10 @@ function timedChild(cmd: string, args: string[]): Promise<Run> {
         return reject(new Error(`${cmd} ${args.join(' ')} exited with ${code}:\n${own.join('\n')}`));
       }
       const m = /Maximum resident set size \(kbytes\): (\d+)/.exec(stderr);
-      resolvePromise({ wallMs, peakRssKiB: useTime ? (m ? Number(m[1]) : null) : polled || null, stdout });
+      const user = /User time \(seconds\): ([\d.]+)/.exec(stderr);
+      const sys = /System time \(seconds\): ([\d.]+)/.exec(stderr);
+      const cpuMs = user && sys ? (Number(user[1]) + Number(sys[1])) * 1000 : null;
+      resolvePromise({ wallMs, cpuMs, peakRssKiB: useTime ? (m ? Number(m[1]) : null) : polled || null, stdout });
     });
   });
 }
@@ -193,6 +206,7 @@ mkdirSync(join(ws, 'audits'), { recursive: true });
 writeFileSync(join(ws, 'audits', 'bench.md'), manifest(blockLength));
 
 console.log(`machine: ${machine()}`);
+console.log(`load average before: ${loadavg().map((x) => x.toFixed(2)).join(' ')} (other work on the machine slows both contenders)`);
 const gen = ensureData(file, units, bins, seed);
 const inputBytes = statSync(file).size;
 console.log(
@@ -209,12 +223,12 @@ console.log(
   closeSync(fd);
 }
 
-type BuildOut = { timings: Record<'manifests' | 'hash' | 'compute' | 'assemble' | 'render', number>; computed: number };
+type BuildOut = { timings: Record<'manifests' | 'hash' | 'compute' | 'assemble' | 'render', number>; computed: number; startupMs: number; computeRssKiB: number | null };
 type RefOut = {
   seconds: { pass: number; bootstrap: number; total: number };
   estimates: Record<string, number>;
   interval: { lower: number; upper: number };
-  versions: { numpy: string; scipy: string };
+  versions: { numpy: string };
 };
 const builds: { run: Run; out: BuildOut }[] = [];
 const refs: { run: Run; out: RefOut }[] = [];
@@ -228,32 +242,40 @@ for (let r = 0; r < repeat; r++) {
   refs.push({ run: p, out: lastJson<RefOut>(p.stdout) });
   const t = builds[r].out.timings;
   console.log(
-    `run ${r + 1}/${repeat}: lacuna ${secs(b.wallMs)} (compute ${secs(t.compute)}, hash ${secs(t.hash)}, render ${secs(t.render)}); numpy ${secs(p.wallMs)}`,
+    `run ${r + 1}/${repeat}: lacuna ${secs(b.wallMs)} (cpu ${b.cpuMs === null ? '?' : secs(b.cpuMs)}; compute ${secs(t.compute)}, hash ${secs(t.hash)}, render ${secs(t.render)}); ` +
+      `numpy ${secs(p.wallMs)} (cpu ${p.cpuMs === null ? '?' : secs(p.cpuMs)}; in-script ${refs[r].out.seconds.total.toFixed(2)} s)`,
   );
 }
 
 // 4. Figures.
-const compute = median(builds.map((b) => b.out.timings.compute));
-const stages = median(builds.map((b) => Object.values(b.out.timings).reduce((s, x) => s + x, 0)));
-const build = median(builds.map((b) => b.run.wallMs));
-const numpy = median(refs.map((p) => p.run.wallMs));
-const lacunaRss = median(builds.map((b) => b.run.peakRssKiB ?? NaN)) * 1024;
-const numpyRss = median(refs.map((p) => p.run.peakRssKiB ?? NaN)) * 1024;
+const med = (xs: (number | null)[]) => (xs.some((x) => x === null) ? NaN : median(xs as number[]));
+const compute = med(builds.map((b) => b.out.timings.compute));
+const stages = med(builds.map((b) => Object.values(b.out.timings).reduce((s, x) => s + x, 0)));
+const build = med(builds.map((b) => b.run.wallMs));
+const buildCpu = med(builds.map((b) => b.run.cpuMs));
+const numpy = med(refs.map((p) => p.run.wallMs));
+const numpyCpu = med(refs.map((p) => p.run.cpuMs));
+const numpyInScript = med(refs.map((p) => p.out.seconds.total * 1000));
+const lacunaRss = med(builds.map((b) => b.run.peakRssKiB)) * 1024;
+const computeRss = med(builds.map((b) => b.out.computeRssKiB)) * 1024;
+const startup = med(builds.map((b) => b.out.startupMs));
+const numpyRss = med(refs.map((p) => p.run.peakRssKiB)) * 1024;
 const stageMedians = Object.fromEntries(
-  (['manifests', 'hash', 'compute', 'assemble', 'render'] as const).map((k) => [k, median(builds.map((b) => b.out.timings[k]))]),
+  (['manifests', 'hash', 'compute', 'assemble', 'render'] as const).map((k) => [k, med(builds.map((b) => b.out.timings[k]))]),
 );
 const ref = refs[refs.length - 1].out;
 console.log(`
 input              ${units} units × ${bins} bins float32 = ${mib(inputBytes)} (${inputBytes} bytes); ${repeat} run(s), medians
-reference          numpy ${ref.versions.numpy}, scipy ${ref.versions.scipy}, python3; block length ${blockLength}, 1000 percentile resamples
-lacuna compute     ${secs(compute)}   (stage 3: read + one-pass measures + 7 bootstrap intervals)
-lacuna build       ${secs(build)}   (child process wall time; stages sum to ${secs(stages)}: ${Object.entries(stageMedians).map(([k, v]) => `${k} ${secs(v)}`).join(', ')})
-numpy reference    ${secs(numpy)}   (process wall time; in-script ${ref.seconds.total.toFixed(2)} s = pass ${ref.seconds.pass.toFixed(2)} s + bootstrap ${ref.seconds.bootstrap.toFixed(2)} s)
-compute / numpy    ${(compute / numpy).toFixed(2)}   (target ≤ 0.5)
-build / numpy      ${(build / numpy).toFixed(2)}   (target ≤ 1)
-lacuna peak RSS    ${mib(lacunaRss)} = ${(lacunaRss / inputBytes).toFixed(2)} × input   (target < 0.5)
+reference          numpy ${ref.versions.numpy}, python3; block length ${blockLength}, 1000 percentile resamples
+lacuna compute     ${secs(compute)}   (stage 3: read, one-pass measures, 7 bootstrap intervals)
+lacuna build       ${secs(build)}   (child process wall time, cpu ${secs(buildCpu)}; start-up ${secs(startup)} then stages ${secs(stages)}: ${Object.entries(stageMedians).map(([k, v]) => `${k} ${secs(v)}`).join(', ')})
+numpy reference    ${secs(numpy)}   (process wall time, cpu ${secs(numpyCpu)}; in-script ${secs(numpyInScript)}: pass ${secs(med(refs.map((p) => p.out.seconds.pass * 1000)))}, bootstrap ${secs(med(refs.map((p) => p.out.seconds.bootstrap * 1000)))}; the rest is interpreter start and numpy import)
+compute / numpy    ${(compute / numpy).toFixed(2)}   (target ≤ 0.5; against numpy's in-script time: ${(compute / numpyInScript).toFixed(2)})
+build / numpy      ${(build / numpy).toFixed(2)}   (target ≤ 1; cpu time ratio ${(buildCpu / numpyCpu).toFixed(2)})
+lacuna peak RSS    ${mib(lacunaRss)} = ${(lacunaRss / inputBytes).toFixed(2)} × input   (target < 0.5); up to the end of compute ${mib(computeRss)} = ${(computeRss / inputBytes).toFixed(2)} × input
 numpy peak RSS     ${mib(numpyRss)} = ${(numpyRss / inputBytes).toFixed(2)} × input   (memory-mapped pages that were touched count as resident)
-peak RSS from      ${existsSync('/usr/bin/time') ? '/usr/bin/time -v (maximum resident set size)' : 'polling /proc/<pid>/status VmHWM every 20 ms'}`);
+peak RSS from      ${existsSync('/usr/bin/time') ? '/usr/bin/time -v (maximum resident set size)' : 'polling /proc/<pid>/status VmHWM every 20 ms'}
+load average after ${loadavg().map((x) => x.toFixed(2)).join(' ')}`);
 
 // Same work: the estimates side by side.
 const record = JSON.parse(readFileSync(join(ws, 'records', 'bench', 'v001.json'), 'utf8'));
