@@ -101,7 +101,7 @@ const EVENT_FIELDS: readonly FieldSpec[] = [
   {
     name: 'baseline', type: 'choice', words: ['trace'], default: 'trace',
     fields: [
-      { name: 'start_s', type: 'number', min: 0, required: true, description: 'Start of the noise window, seconds from the start of each file.' },
+      { name: 'start_s', type: 'number', min: 0, required: true, description: 'Start of the noise window, seconds from the first bin of the dataset (sessions joined).' },
       { name: 'end_s', type: 'number', min: 0, minExclusive: true, required: true, description: 'End of the noise window, seconds; greater than start_s.' },
     ],
     description: 'Where noise is estimated: the whole trace, or { start_s, end_s }.',

@@ -25,7 +25,7 @@ export interface BootstrapSettings {
 export interface EventSettings {
   /** A value is an event when it exceeds k robust SDs (MAD × 1.4826) above the ROI's median. */
   k: number;
-  /** Where the noise is estimated: the whole trace, or a window in seconds from the start of each file. */
+  /** Where the noise is estimated: the whole trace, or a window in seconds from the first bin of the dataset (its files joined along bins). */
   baseline: 'trace' | { start_s: number; end_s: number };
 }
 

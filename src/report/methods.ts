@@ -137,7 +137,7 @@ function measuresParagraph(result: AuditResult, c: ReturnType<typeof citer>): st
   const ev = p.events === null || p.events === undefined ? null : obj(p.events);
   if (ev) {
     const k = num(ev.k);
-    const base = ev.baseline === 'trace' ? 'the whole trace' : (() => { const b = obj(ev.baseline); return `the window from ${num(b.start_s)} s to ${num(b.end_s)} s of each file`; })();
+    const base = ev.baseline === 'trace' ? 'the whole trace' : (() => { const b = obj(ev.baseline); return `the window from ${num(b.start_s)} s to ${num(b.end_s)} s from the start of the recording`; })();
     s.push(`For the event-based measures, reported separately, a value was an event when it exceeded ${k} robust standard deviations (median absolute deviation × 1.4826) above the trace’s median, with the noise estimated over ${base}.`);
   }
   return s.join(' ');
