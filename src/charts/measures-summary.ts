@@ -85,8 +85,9 @@ export function measuresSummaryChart(ds: DatasetResult): ChartSpec | null {
   const charts = rows.map((r) => rowChart(r));
   const spec = { vconcat: charts, spacing: 4 };
   const title = `Measures — ${ds.id}`;
+  const anyInterval = Object.values(ds.measures).some((m) => m?.interval) || Object.values(ds.eventMeasures ?? {}).some((m) => m?.interval);
   const description =
-    `Estimates of ${rows.length} measures for dataset ${ds.id}, each with its bootstrap interval where one was computed: ` +
+    `Estimates of ${rows.length} measures for dataset ${ds.id}, ${anyInterval ? 'each with its bootstrap interval where one was computed' : 'without intervals'}: ` +
     Object.entries(ds.measures)
       .filter((e): e is [string, MeasureResult] => e[1] !== undefined)
       .map(([name, m]) => `${measureLabel(name)} ${estimatePhrase(m)}`)
@@ -98,6 +99,6 @@ export function measuresSummaryChart(ds: DatasetResult): ChartSpec | null {
     title,
     description,
     datasetId: ds.id,
-    spec: frame(title, description, spec, { noSize: true, subtitle: 'diamond: estimate · bar: bootstrap interval' }),
+    spec: frame(title, description, spec, { noSize: true, subtitle: anyInterval ? 'diamond: estimate · bar: bootstrap interval' : 'diamond: estimate (no sampling interval: every element was measured)' }),
   };
 }
