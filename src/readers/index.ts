@@ -5,6 +5,11 @@
  *                    │            2. check units agree, 3. hash files, 4. join along bins (join.ts)
  *                    └─ weights:  1. read every header (weights.ts), 2. hash files
  *
+ * Step "hash files" is skipped when the caller passes the provenance it computed (the build hashes
+ * every input first): the files' size, times and inode are recorded at open instead and checked
+ * after each full pass (file-guard.ts), so a file changed underneath is an InputError, not a
+ * result recorded under the wrong hash.
+ *
  * Formats: npy.ts (NEP 1), npz.ts (+ zip.ts, inflate-source.ts), csv.ts (CSV/TSV matrices),
  * spikes.ts (spike-time tables), safetensors.ts (weights), nwb.ts (NWB 2.x, loaded on demand so
  * its HDF5 WebAssembly module is only loaded for NWB datasets). Every problem with a data file is
@@ -17,6 +22,7 @@ import { InputError } from '../errors.ts';
 import type { ActivityFile, FileInspection } from './types.ts';
 import { inputError } from './byte-source.ts';
 import { hashFile } from './hash.ts';
+import { guardFiles, type FileGuard, type HashedFile } from './file-guard.ts';
 import { openNpyActivity, openNpyFile, activityGeometry } from './npy.ts';
 import { openNpzActivity, npzEntries, openNpzMember, chooseMember } from './npz.ts';
 import { openCsvActivity, inspectTable } from './csv.ts';
@@ -28,6 +34,7 @@ import { planWeights, readTensors } from './weights.ts';
 import { joinActivity, DEFAULT_MAX_BLOCK_BYTES } from './join.ts';
 
 export { hashFile };
+export type { HashedFile };
 export type { ReadableActivityFile } from './activity-file.ts';
 
 /** One file of an activity dataset, opened for `readUnits` (headers read; data not yet). */
@@ -59,19 +66,41 @@ async function provenanceOf(ds: ResolvedDataset): Promise<FileProvenance[]> {
   return out;
 }
 
+/** Every tensor of the plan, then the guard's check (when there is one) once the last is read. */
+async function* guardedTensors(plan: Awaited<ReturnType<typeof planWeights>>, guard: FileGuard | null) {
+  yield* readTensors(plan);
+  if (guard) await guard.check();
+}
+
+export interface OpenContext {
+  kind: AuditKind;
+  binMs: number;
+  workspaceRoot: string;
+  /** Largest block in bytes; default by layout (join.ts). */
+  maxBlockBytes?: number;
+  /**
+   * The files' provenance as the caller already hashed it (same order as `ds.files`, `path` the
+   * workspace-relative path). When given, the files are not hashed again: this becomes the
+   * source's `files`, and the files must keep their size, times and inode while they are read
+   * (file-guard.ts). When absent, every file is hashed while opening.
+   */
+  provenance?: HashedFile[];
+}
+
 /** Open a dataset for streaming (activity blocks or weight tensors). */
-export async function openDataset(
-  ds: ResolvedDataset, ctx: { kind: AuditKind; binMs: number; workspaceRoot: string; maxBlockBytes?: number },
-): Promise<DataSource> {
+export async function openDataset(ds: ResolvedDataset, ctx: OpenContext): Promise<DataSource> {
   if (!ds.files.length) throw noFiles(ds);
+  const guard = ctx.provenance ? await guardFiles(ds.files, ds.relFiles, ctx.provenance) : null;
+  const provenance = async (): Promise<FileProvenance[]> =>
+    ctx.provenance ? ctx.provenance.map((p) => ({ path: p.path, sha256: p.sha256, bytes: p.bytes })) : provenanceOf(ds);
   if (ctx.kind === 'weights') {
     const plan = await planWeights(ds);
     const source: WeightsSource = {
       kind: 'weights',
-      files: await provenanceOf(ds),
+      files: await provenance(),
       layers: plan.layers.map((l) => ({ name: l.name, shape: l.shape })),
       findings: plan.findings,
-      tensors: () => readTensors(plan),
+      tensors: () => guardedTensors(plan, guard),
     };
     return source;
   }
@@ -83,7 +112,8 @@ export async function openDataset(
       await f.close(); // release handles now; each pass of blocks() reads (or reopens) it
     }
     const reopen = (i: number) => openActivityFile(ds.files[i], ds.relFiles[i], ds, ctx);
-    return joinActivity(files, ds.relFiles, await provenanceOf(ds), ctx.maxBlockBytes ?? DEFAULT_MAX_BLOCK_BYTES, reopen);
+    const check = guard ? () => guard.check() : undefined;
+    return joinActivity(files, ds.relFiles, await provenance(), ctx.maxBlockBytes ?? DEFAULT_MAX_BLOCK_BYTES, reopen, check);
   } catch (err) {
     for (const f of files) await f.close();
     throw err;

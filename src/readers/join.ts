@@ -11,6 +11,8 @@
  * iteration ends, early or not. A file whose `close()` is final (not `reusableAfterClose`, e.g.
  * NWB) is opened again through `reopen` at the start of each pass and closed at its end; a
  * reopened file whose units or bins changed since the dataset was opened is an InputError.
+ * `afterPass`, when given, runs after the last block of each pass is read and before it is
+ * yielded (file-guard.ts: were the files changed underneath?); its error ends the pass.
  */
 import type { ActivitySource, FileProvenance, Finding, Numeric } from '../types.ts';
 import { InputError, InternalError } from '../errors.ts';
@@ -22,6 +24,7 @@ export const DEFAULT_MAX_BLOCK_BYTES = 64 * 1024 * 1024;
 export function joinActivity(
   files: ActivityFile[], relFiles: string[], provenance: FileProvenance[], maxBlockBytesDefault = DEFAULT_MAX_BLOCK_BYTES,
   reopen?: (index: number) => Promise<ActivityFile>,
+  afterPass?: () => Promise<void>,
 ): ActivitySource {
   const first = files[0];
   const findings: Finding[] = files.flatMap((f) => f.findings);
@@ -81,6 +84,7 @@ export function joinActivity(
           for (let i = 0; i < open.length; i++) {
             await open[i].readUnits(u, count, data, bins, segments[i].binStart, missing);
           }
+          if (afterPass && u + count >= units) await afterPass();
           const n = count * bins;
           yield {
             unitStart: u, units: count, bins,
