@@ -17,11 +17,24 @@ export interface ReadableActivityFile extends ActivityFile {
    * reopened for each pass instead; see join.ts.)
    */
   reusableAfterClose: true;
+  /**
+   * True when any range of whole units is read as one forward sweep of the data (units-by-bins
+   * C-order or bins-by-units Fortran-order `.npy`, stored or deflated `.npz` members in those
+   * orders, CSV and spike tables held in memory), so a pass costs one read of the data however
+   * small its blocks. False when each block re-reads rows of the file (strided layouts).
+   * Absent: treated as false.
+   */
+  contiguous?: boolean;
 }
 
 /** True when `close()` leaves the file readable (see ReadableActivityFile). */
 export function isReusable(f: ActivityFile): boolean {
   return (f as Partial<ReadableActivityFile>).reusableAfterClose === true;
+}
+
+/** True when the file says its unit ranges are contiguous (see ReadableActivityFile). */
+export function isContiguous(f: ActivityFile): boolean {
+  return (f as Partial<ReadableActivityFile>).contiguous === true;
 }
 
 /** A file's precision; readers that do not say (e.g. NWB) get float64, which is always exact. */

@@ -31,11 +31,17 @@ import { inspectSpikeHeader } from './spikes-inspect.ts';
 import { readSafetensorsHeader } from './safetensors.ts';
 import { delimiterFor } from './table-text.ts';
 import { planWeights, readTensors } from './weights.ts';
-import { joinActivity, DEFAULT_MAX_BLOCK_BYTES } from './join.ts';
+import { joinActivity } from './join.ts';
+import type { ReadableActivityFile } from './activity-file.ts';
 
 export { hashFile };
 export type { HashedFile };
 export type { ReadableActivityFile } from './activity-file.ts';
+
+/** A reader that holds the whole file in memory (CSV, spike tables): any unit range is contiguous. */
+function inMemory(f: ReadableActivityFile): ReadableActivityFile {
+  return Object.assign(f, { contiguous: true });
+}
 
 /** One file of an activity dataset, opened for `readUnits` (headers read; data not yet). */
 export async function openActivityFile(path: string, relPath: string, ds: ResolvedDataset, ctx: { binMs: number }): Promise<ActivityFile> {
@@ -43,8 +49,8 @@ export async function openActivityFile(path: string, relPath: string, ds: Resolv
     case 'npy': return openNpyActivity(path, relPath, ds.layout);
     case 'npz': return openNpzActivity(path, relPath, ds.layout, ds.member);
     case 'csv':
-    case 'tsv': return openCsvActivity(path, relPath, ds.layout, delimiterFor(ds.format, relPath));
-    case 'spikes': return openSpikeTable(path, relPath, delimiterFor(ds.format, relPath), ctx.binMs);
+    case 'tsv': return inMemory(await openCsvActivity(path, relPath, ds.layout, delimiterFor(ds.format, relPath)));
+    case 'spikes': return inMemory(await openSpikeTable(path, relPath, delimiterFor(ds.format, relPath), ctx.binMs));
     case 'nwb': {
       const { openNwbActivity } = await import('./nwb.ts');
       return openNwbActivity(path, { binMs: ctx.binMs, series: ds.series, relPath });
@@ -113,7 +119,7 @@ export async function openDataset(ds: ResolvedDataset, ctx: OpenContext): Promis
     }
     const reopen = (i: number) => openActivityFile(ds.files[i], ds.relFiles[i], ds, ctx);
     const check = guard ? () => guard.check() : undefined;
-    return joinActivity(files, ds.relFiles, await provenance(), ctx.maxBlockBytes ?? DEFAULT_MAX_BLOCK_BYTES, reopen, check);
+    return joinActivity(files, ds.relFiles, await provenance(), ctx.maxBlockBytes, reopen, check);
   } catch (err) {
     for (const f of files) await f.close();
     throw err;

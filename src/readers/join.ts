@@ -6,7 +6,12 @@
  *
  * `blocks()` yields blocks of whole units into one buffer allocated per call and reused between
  * yields: ⌊maxBlockBytes / (bins × bytes per value)⌋ units per block, at least one (so a single
- * unit wider than the limit still makes a block). The buffer is Float64Array when any file needs
+ * unit wider than the limit still makes a block). The default limit depends on the layout: 8 MiB
+ * when every file reads unit ranges contiguously (activity-file.ts `contiguous`), where small
+ * blocks stay in cache and keep memory low (measured on a 381 MiB float32 `.npy` through the
+ * compute stage: 8 MiB 2.1 s and 114 MiB peak RSS, 64 MiB 2.5 s and 170 MiB); else 64 MiB,
+ * because strided layouts re-read the file once per block. An explicit `maxBlockBytes` (the
+ * dataset's default, then the `blocks()` option) wins. The buffer is Float64Array when any file needs
  * float64 precision (activity-file.ts), else Float32Array. File handles are released when the
  * iteration ends, early or not. A file whose `close()` is final (not `reusableAfterClose`, e.g.
  * NWB) is opened again through `reopen` at the start of each pass and closed at its end; a
@@ -16,13 +21,21 @@
  */
 import type { ActivitySource, FileProvenance, Finding, Numeric } from '../types.ts';
 import { InputError, InternalError } from '../errors.ts';
-import { precisionOf, isReusable } from './activity-file.ts';
+import { precisionOf, isReusable, isContiguous } from './activity-file.ts';
 import type { ActivityFile } from './types.ts';
 
+/** Default block limit when some file's unit ranges are strided on disk. */
 export const DEFAULT_MAX_BLOCK_BYTES = 64 * 1024 * 1024;
+/** Default block limit when every file reads unit ranges contiguously. */
+export const CONTIGUOUS_MAX_BLOCK_BYTES = 8 * 1024 * 1024;
+
+/** The default block limit for these files: small when all are contiguous, else large. */
+export function defaultMaxBlockBytes(files: ActivityFile[]): number {
+  return files.every(isContiguous) ? CONTIGUOUS_MAX_BLOCK_BYTES : DEFAULT_MAX_BLOCK_BYTES;
+}
 
 export function joinActivity(
-  files: ActivityFile[], relFiles: string[], provenance: FileProvenance[], maxBlockBytesDefault = DEFAULT_MAX_BLOCK_BYTES,
+  files: ActivityFile[], relFiles: string[], provenance: FileProvenance[], maxBlockBytesDefault = defaultMaxBlockBytes(files),
   reopen?: (index: number) => Promise<ActivityFile>,
   afterPass?: () => Promise<void>,
 ): ActivitySource {

@@ -11,7 +11,8 @@
  * read. Otherwise (units-by-bins in Fortran order, bins-by-units in C order) the units are strided:
  * rows of bins are read in chunks and the requested columns gathered, so every block re-reads the
  * byte span from its first to its last unit in each row — for a full pass that is up to one whole
- * file read per block. Larger `maxBlockBytes` means fewer passes. The values written are the
+ * file read per block. Larger `maxBlockBytes` means fewer passes, so such files report
+ * `contiguous: false` and get the large default block (join.ts). The values written are the
  * stored values converted exactly (dtype.ts); NaN and negative values pass through unchanged.
  */
 import type { Numeric } from '../types.ts';
@@ -109,7 +110,7 @@ export function npyActivityFile(
     binMs: null,
     findings: [],
     hasMissing: false,
-    precision: h.dtype.precision, reusableAfterClose: true,
+    precision: h.dtype.precision, reusableAfterClose: true, contiguous: g.unitContiguous,
     async readUnits(unitStart, count, out, outCols, colOffset) {
       if (unitStart < 0 || count < 0 || unitStart + count > g.units || colOffset + g.bins > outCols || out.length < count * outCols) {
         throw new RangeError(`readUnits(${unitStart}, ${count}) outside ${g.units} units or block of ${outCols} columns`);
