@@ -6,7 +6,12 @@
  * activity (weights take any rank).
  *
  * Cost of `readUnits`: data are read with positioned `fs.promises` reads into one reused scratch
- * buffer (4 MiB by default), never the whole file. When a unit's bins are contiguous on disk
+ * buffer (4 MiB by default), never the whole file. Zero-copy: little-endian f4 (f8) data in a
+ * contiguous layout, read into a Float32Array (Float64Array) block, are read straight into the
+ * block's bytes, skipping the scratch copy — one read per block when the block's rows are this
+ * file's rows, one read per unit row when files are joined along bins (rows of at least
+ * ROW_READ_MIN_BYTES; shorter rows go through the scratch buffer, fewer and larger reads). The
+ * bytes are the stored IEEE 754 values either way, so the numbers are identical. When a unit's bins are contiguous on disk
  * (units-by-bins in C order, bins-by-units in Fortran order) a range of units is one contiguous
  * read. Otherwise (units-by-bins in Fortran order, bins-by-units in C order) the units are strided:
  * rows of bins are read in chunks and the requested columns gathered, so every block re-reads the
@@ -19,11 +24,26 @@ import type { Numeric } from '../types.ts';
 import type { Layout } from '../manifest/types.ts';
 import { stat } from 'node:fs/promises';
 import { fileRange, inputError, type ByteSource } from './byte-source.ts';
-import { decodeInto, allocNumeric } from './dtype.ts';
+import { decodeInto, allocNumeric, type DType } from './dtype.ts';
 import { readNpyHeader, type NpyHeader } from './npy-header.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
 
 export const DEFAULT_SCRATCH_BYTES = 4 << 20;
+/** Largest single zero-copy read (a file handle read takes under 2 GiB). */
+const DIRECT_READ_BYTES = 64 << 20;
+/**
+ * Shortest unit row read on its own straight into a joined block; shorter rows use scratch. Each
+ * read costs a thread-pool round trip: two 190 MiB float32 files joined along bins, 2,000 rows of
+ * 100 kB each per file, took 350 ms a pass read row by row and 233 ms through 4 MiB scratch
+ * reads; with 200 rows of 1 MB, 200 ms row by row and 230 ms through scratch.
+ */
+export const ROW_READ_MIN_BYTES = 512 << 10;
+
+/** True when the stored bytes are `out`'s own element bytes (little-endian f4 → f32, f8 → f64). */
+export function readsInPlace(dt: DType, out: Numeric): boolean {
+  if (dt.kind !== 'f' || !dt.littleEndian) return false;
+  return dt.size === 4 ? out instanceof Float32Array : dt.size === 8 && out instanceof Float64Array;
+}
 
 interface Geometry {
   units: number;
@@ -61,7 +81,31 @@ export function npyActivityFile(
   let scratch: Uint8Array | null = null;
   const buf = (): Uint8Array => (scratch ??= new Uint8Array(scratchBytes - (scratchBytes % es)));
 
+  /** Stored bytes [fileByte, fileByte + n) into `out`'s bytes from element `outIndex` on. */
+  async function readSpan(fileByte: number, n: number, out: Numeric, outIndex: number) {
+    const at = out.byteOffset + outIndex * es;
+    for (let done = 0; done < n; done += DIRECT_READ_BYTES) {
+      const k = Math.min(DIRECT_READ_BYTES, n - done);
+      await src.read(fileByte + done, k, new Uint8Array(out.buffer, at + done, k));
+    }
+  }
+
+  /** Zero-copy contiguous read; false when this block cannot take one (then scratch is used). */
+  async function direct(unitStart: number, count: number, out: Numeric, outCols: number, colOffset: number): Promise<boolean> {
+    if (!readsInPlace(h.dtype, out)) return false;
+    const rowBytes = g.bins * es;
+    const first = h.headerBytes + unitStart * rowBytes;
+    if (outCols === g.bins) {
+      await readSpan(first, count * rowBytes, out, 0);
+      return true;
+    }
+    if (rowBytes < ROW_READ_MIN_BYTES) return false;
+    for (let u = 0; u < count; u++) await readSpan(first + u * rowBytes, rowBytes, out, u * outCols + colOffset);
+    return true;
+  }
+
   async function contiguous(unitStart: number, count: number, out: Numeric, outCols: number, colOffset: number) {
+    if (await direct(unitStart, count, out, outCols, colOffset)) return;
     const s = buf();
     const perRead = s.length / es;
     let e = unitStart * g.bins;
