@@ -149,7 +149,7 @@ for code in ('<f4', '<f8'):
       // Big-endian copy: always decoded value by value; the values (not NaN payload bits) must agree.
       const be = await blockBytes([join(tmp.dir, `${tag}-be.npy`)], 'npy', 'units-by-bins');
       const Ctor = tag === 'f4' ? Float32Array : Float64Array;
-      const viewOf = (b: Buffer) => new Ctor(b.buffer.slice(b.byteOffset, b.byteOffset + b.byteLength));
+      const viewOf = (b: Buffer) => new Ctor(Uint8Array.from(b).buffer); // a copy: aligned, own buffer
       const x = viewOf(be.bytes);
       const y = viewOf(want);
       expect(Array.from(x).every((v, i) => Object.is(v, y[i]))).toBe(true);
