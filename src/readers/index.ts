@@ -16,7 +16,7 @@
  * an InputError naming the workspace-relative file and the place.
  */
 import { stat } from 'node:fs/promises';
-import type { DataSource, FileProvenance, WeightsSource } from '../types.ts';
+import type { FileProvenance, WeightsSource } from '../types.ts';
 import type { AuditKind, ResolvedDataset } from '../manifest/types.ts';
 import { InputError } from '../errors.ts';
 import type { ActivityFile, FileInspection } from './types.ts';
@@ -31,11 +31,12 @@ import { inspectSpikeHeader } from './spikes-inspect.ts';
 import { readSafetensorsHeader } from './safetensors.ts';
 import { delimiterFor } from './table-text.ts';
 import { planWeights, readTensors } from './weights.ts';
-import { joinActivity } from './join.ts';
+import { joinActivity, type RangedActivitySource } from './join.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
 
 export { hashFile };
-export type { HashedFile };
+export type { HashedFile, RangedActivitySource };
+export type { BlockOptions } from './join.ts';
 export type { ReadableActivityFile } from './activity-file.ts';
 
 /** A reader that holds the whole file in memory (CSV, spike tables): any unit range is contiguous. */
@@ -93,8 +94,11 @@ export interface OpenContext {
   provenance?: HashedFile[];
 }
 
-/** Open a dataset for streaming (activity blocks or weight tensors). */
-export async function openDataset(ds: ResolvedDataset, ctx: OpenContext): Promise<DataSource> {
+/**
+ * Open a dataset for streaming: activity blocks (whose `blocks()` also takes a unit range, see
+ * join.ts) or weight tensors.
+ */
+export async function openDataset(ds: ResolvedDataset, ctx: OpenContext): Promise<RangedActivitySource | WeightsSource> {
   if (!ds.files.length) throw noFiles(ds);
   const guard = ctx.provenance ? await guardFiles(ds.files, ds.relFiles, ctx.provenance) : null;
   const provenance = async (): Promise<FileProvenance[]> =>

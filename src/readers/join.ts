@@ -16,10 +16,15 @@
  * iteration ends, early or not. A file whose `close()` is final (not `reusableAfterClose`, e.g.
  * NWB) is opened again through `reopen` at the start of each pass and closed at its end; a
  * reopened file whose units or bins changed since the dataset was opened is an InputError.
+ * `blocks({ unitStart, unitEnd })` yields only units [unitStart, unitEnd) (default: all), still as
+ * whole-unit blocks whose `unitStart` is the absolute unit index, so one dataset can be split
+ * across workers and their pass states merged; ranges covering [0, units) together give exactly
+ * the blocks' rows of one whole pass. A range outside [0, units) or not integral is a RangeError
+ * (a caller's bug); an empty range yields nothing and reads nothing.
  * `afterPass`, when given, runs after the last block of each pass is read and before it is
  * yielded (file-guard.ts: were the files changed underneath?); its error ends the pass.
  */
-import type { ActivitySource, FileProvenance, Finding, Numeric } from '../types.ts';
+import type { ActivitySource, FileProvenance, Finding, Numeric, UnitBlock } from '../types.ts';
 import { InputError, InternalError } from '../errors.ts';
 import { precisionOf, isReusable, isContiguous } from './activity-file.ts';
 import type { ActivityFile } from './types.ts';
@@ -28,6 +33,20 @@ import type { ActivityFile } from './types.ts';
 export const DEFAULT_MAX_BLOCK_BYTES = 64 * 1024 * 1024;
 /** Default block limit when every file reads unit ranges contiguously. */
 export const CONTIGUOUS_MAX_BLOCK_BYTES = 8 * 1024 * 1024;
+
+/** Options of `blocks()`: the contract's block limit plus a range of units. */
+export interface BlockOptions {
+  maxBlockBytes?: number;
+  /** First unit to yield (default 0). */
+  unitStart?: number;
+  /** One past the last unit to yield (default: every unit). */
+  unitEnd?: number;
+}
+
+/** An ActivitySource whose `blocks()` also takes a unit range (what `openDataset` returns). */
+export interface RangedActivitySource extends ActivitySource {
+  blocks(options?: BlockOptions): AsyncIterable<UnitBlock>;
+}
 
 /** The default block limit for these files: small when all are contiguous, else large. */
 export function defaultMaxBlockBytes(files: ActivityFile[]): number {
@@ -38,7 +57,7 @@ export function joinActivity(
   files: ActivityFile[], relFiles: string[], provenance: FileProvenance[], maxBlockBytesDefault = defaultMaxBlockBytes(files),
   reopen?: (index: number) => Promise<ActivityFile>,
   afterPass?: () => Promise<void>,
-): ActivitySource {
+): RangedActivitySource {
   const first = files[0];
   const findings: Finding[] = files.flatMap((f) => f.findings);
   let bins = 0;
@@ -76,8 +95,14 @@ export function joinActivity(
   return {
     kind: 'activity', units, bins, unitLabels, binMs, files: provenance, segments, findings,
     async *blocks(options) {
+      const start = options?.unitStart ?? 0;
+      const end = options?.unitEnd ?? units;
+      if (!Number.isInteger(start) || !Number.isInteger(end) || start < 0 || start > end || end > units) {
+        throw new RangeError(`unit range [${start}, ${end}) is not within [0, ${units})`);
+      }
+      if (start === end) return;
       const maxBytes = options?.maxBlockBytes ?? maxBlockBytesDefault;
-      const per = Math.max(1, Math.min(units, Math.floor(maxBytes / (bins * (f64 ? 8 : 4)))));
+      const per = Math.max(1, Math.min(end - start, Math.floor(maxBytes / (bins * (f64 ? 8 : 4)))));
       const data: Numeric = f64 ? new Float64Array(per * bins) : new Float32Array(per * bins);
       const missing = anyMissing ? new Uint8Array(per * bins) : undefined;
       const open: ActivityFile[] = [];
@@ -91,13 +116,13 @@ export function joinActivity(
             throw new InputError(`file changed while in use: now ${f.units} units × ${f.bins} bins, was ${files[i].units} × ${files[i].bins}`, { file: relFiles[i], where: 'shape' });
           }
         }
-        for (let u = 0; u < units; u += per) {
-          const count = Math.min(per, units - u);
+        for (let u = start; u < end; u += per) {
+          const count = Math.min(per, end - u);
           if (missing) missing.fill(0);
           for (let i = 0; i < open.length; i++) {
             await open[i].readUnits(u, count, data, bins, segments[i].binStart, missing);
           }
-          if (afterPass && u + count >= units) await afterPass();
+          if (afterPass && u + count >= end) await afterPass();
           const n = count * bins;
           yield {
             unitStart: u, units: count, bins,
