@@ -7,10 +7,10 @@
  *   4. each measure summarised with its bootstrap interval (see summarise.ts);
  *   5. chart data (per-unit values in full, per-bin values in ≤ ~1,000 windows).
  */
-import { createActivityPass, finishActivityPass, type ActivityPassResult } from '../metrics/activity-pass.ts';
+import { createActivityPass, finishActivityPass, type ActivityPassResult, type ActivityPassState } from '../metrics/activity-pass.ts';
 import { activityFindings } from '../metrics/activity-findings.ts';
 import type { ResolvedDataset, ResolvedManifest } from '../manifest/types.ts';
-import type { ActivityChartData, ActivitySource, DatasetResult, Finding, MeasureResult } from '../types.ts';
+import type { ActivityChartData, ActivitySource, DatasetResult, Finding, MeasureResult, UnitBlock } from '../types.ts';
 import { summarise, type IntervalPlan } from './summarise.ts';
 
 export const ACTIVITY_SUMMARIES = {
@@ -23,30 +23,56 @@ export const ACTIVITY_SUMMARIES = {
   activity_ratio: "mean over defined units of each unit's Treves–Rolls activity ratio across bins",
 } as const;
 
+/** What the finish stage needs to know of a source (plain values: it crosses worker threads). */
+export type SourceMeta = Pick<ActivitySource, 'units' | 'bins' | 'unitLabels' | 'binMs' | 'files' | 'findings'>;
+
+export function sourceMeta(s: ActivitySource): SourceMeta {
+  return { units: s.units, bins: s.bins, unitLabels: s.unitLabels, binMs: s.binMs, files: s.files, findings: s.findings };
+}
+
+function passOptions(m: ResolvedManifest, meta: SourceMeta) {
+  const binMs = meta.binMs ?? m.bin_ms;
+  const events = m.events
+    ? {
+        k: m.events.k,
+        ...(m.events.baseline === 'trace' ? {} : { baselineBins: baselineBins(m.events.baseline, binMs, meta.bins) }),
+      }
+    : null;
+  return { zeroTolerance: m.zero_tolerance, negatives: m.negatives, events, minNonzero: m.min_nonzero };
+}
+
+/**
+ * Step 1: stream the units [range.unitStart, range.unitEnd) (all units when no range) through
+ * the fused pass. States of disjoint ranges merge in `finishActivityPass`.
+ */
+export async function runActivityPass(
+  source: ActivitySource & { blocks(o?: { maxBlockBytes?: number; unitStart?: number; unitEnd?: number }): AsyncIterable<UnitBlock> },
+  m: ResolvedManifest,
+  onBytes: (n: number) => void,
+  range?: { unitStart: number; unitEnd: number },
+): Promise<ActivityPassState> {
+  const pass = createActivityPass({ units: source.units, bins: source.bins }, passOptions(m, source));
+  for await (const block of source.blocks(range ? { unitStart: range.unitStart, unitEnd: range.unitEnd } : undefined)) {
+    pass.addBlock(block);
+    onBytes(block.units * block.bins * block.data.BYTES_PER_ELEMENT);
+  }
+  return pass.state();
+}
+
 export async function computeActivity(
   ds: ResolvedDataset,
   m: ResolvedManifest,
   source: ActivitySource,
   onBytes: (n: number) => void,
 ): Promise<Omit<DatasetResult, 'cacheKey'>> {
-  // 1. Stream.
+  return activityResult(ds, m, sourceMeta(source), [await runActivityPass(source, m, onBytes)]);
+}
+
+/** Steps 2–5, from the pass states of one dataset (one state, or several over disjoint units). */
+export function activityResult(ds: ResolvedDataset, m: ResolvedManifest, source: SourceMeta, states: ActivityPassState[]): Omit<DatasetResult, 'cacheKey'> {
   const binMs = source.binMs ?? m.bin_ms;
-  const events = m.events
-    ? {
-        k: m.events.k,
-        ...(m.events.baseline === 'trace' ? {} : { baselineBins: baselineBins(m.events.baseline, binMs, source.bins) }),
-      }
-    : null;
-  const pass = createActivityPass(
-    { units: source.units, bins: source.bins },
-    { zeroTolerance: m.zero_tolerance, negatives: m.negatives, events, minNonzero: m.min_nonzero },
-  );
-  for await (const block of source.blocks()) {
-    pass.addBlock(block);
-    onBytes(block.units * block.bins * block.data.BYTES_PER_ELEMENT);
-  }
   // 2. Finish.
-  const r = finishActivityPass(pass.state());
+  const r = finishActivityPass(states.length === 1 ? states[0] : states);
 
   // 3. Findings.
   const findings: Finding[] = [...source.findings, ...activityFindings(r, { unitLabels: source.unitLabels })];
@@ -148,7 +174,7 @@ function windows(values: Float64Array, windowBins: number): ActivityChartData['p
   return out;
 }
 
-function activityChartData(r: ActivityPassResult, source: ActivitySource, binMs: number): ActivityChartData {
+function activityChartData(r: ActivityPassResult, source: SourceMeta, binMs: number): ActivityChartData {
   const windowBins = Math.max(1, Math.ceil(r.bins / 1000));
   const labels = source.unitLabels ?? Array.from({ length: r.units }, (_, i) => `unit ${i}`);
   return {

@@ -22,9 +22,10 @@ import type { AuditResult, DatasetResult, FileProvenance } from '../types.ts';
 import { TOOL_VERSION } from '../version.ts';
 import type { Progress } from '../cli/progress.ts';
 import { provenanceOf } from './cache.ts';
-import { computeDataset, keyFor, type DatasetJob } from './dataset.ts';
+import { computeDataset, finishSplit, keyFor, unitsOf, type DatasetJob } from './dataset.ts';
+import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { readCachedDataset } from './cache.ts';
-import { runJobs } from './pool.ts';
+import { runTasks, type Task } from './pool.ts';
 import { buildDrift } from './drift.ts';
 import { compareVersions } from './compare.ts';
 import { describeChange, inputsHash, listVersions, nextVersionName, readRecord, writeRecord, RECORD_FORMAT } from './versions.ts';
@@ -38,6 +39,8 @@ export interface BuildOptions {
   /** 'auto' or a whole number ≥ 1. */
   workers?: string;
   progress: Progress;
+  /** Split an activity dataset of at least this many bytes across workers (default SPLIT_MIN_BYTES). */
+  splitMinBytes?: number;
   /** Fixed clock for tests. */
   now?: () => Date;
 }
@@ -46,6 +49,8 @@ export interface BuildSummary {
   audits: { audit: string; version: string; reused: boolean; datasets: number }[];
   computed: number;
   cached: number;
+  /** Datasets that were split by unit ranges across worker threads. */
+  split: number;
   rendered: string[];
   /** Wall time of each stage in ms (the benchmark prints these). */
   timings: { manifests: number; hash: number; compute: number; assemble: number; render: number };
@@ -74,6 +79,28 @@ function gitCommit(dir: string): string | null {
   } catch {
     return null;
   }
+}
+
+/**
+ * An activity dataset at least this large is split by unit ranges across the workers when there
+ * are more workers than datasets left to share them (the pass states merge exactly).
+ */
+export const SPLIT_MIN_BYTES = 128 << 20;
+
+async function planTasks(todo: (DatasetJob & { bytes: number })[], workers: number, minBytes: number): Promise<Task[]> {
+  const tasks: Task[] = [];
+  const split = workers >= 2 && todo.length < workers;
+  for (const job of todo) {
+    const units = split && job.manifest.kind === 'activity' && job.bytes >= minBytes ? await unitsOf(job) : null;
+    if (units === null || units < 2 * workers) {
+      tasks.push({ kind: 'dataset', job });
+      continue;
+    }
+    for (let w = 0; w < workers; w++) {
+      tasks.push({ kind: 'pass', job, range: { unitStart: Math.floor((w * units) / workers), unitEnd: Math.floor(((w + 1) * units) / workers) } });
+    }
+  }
+  return tasks;
 }
 
 /** 1. Every manifest, validated; all problems of all manifests together. */
@@ -159,6 +186,7 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
   }
   const mine = shard ? jobs.filter((_, i) => i % shard.count === shard.index - 1) : jobs;
   const results = new Map<string, DatasetResult>();
+  let split = 0;
   const todo: typeof jobs = [];
   for (const j of mine) {
     const hit = readCachedDataset(workspace, j.key);
@@ -168,8 +196,25 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
   const cached = mine.length - todo.length;
   if (todo.length) {
     const step = progress.step(`computing ${todo.length} dataset${todo.length === 1 ? '' : 's'}`, todo.reduce((s, j) => s + j.bytes, 0), 'bytes');
-    const computed = await runJobs(todo, workerCount(o.workers, todo.length), (n) => step.advance(n));
-    computed.forEach((r) => results.set(r.cacheKey, r));
+    const workers = workerCount(o.workers, Infinity);
+    const tasks = await planTasks(todo, workers, o.splitMinBytes ?? SPLIT_MIN_BYTES);
+    const out = await runTasks(tasks, Math.min(workers, tasks.length), (n) => step.advance(n));
+    const parts = new Map<(typeof todo)[number], ActivityPassState[]>();
+    for (let i = 0; i < tasks.length; i++) {
+      const t = tasks[i];
+      if (t.kind === 'dataset') {
+        const r = out[i] as DatasetResult;
+        results.set(r.cacheKey, r);
+      } else {
+        const j = t.job as (typeof todo)[number];
+        parts.set(j, [...(parts.get(j) ?? []), out[i] as ActivityPassState]);
+      }
+    }
+    split = parts.size;
+    for (const [j, states] of parts) {
+      const r = await finishSplit(j, states);
+      results.set(r.cacheKey, r);
+    }
     step.done(`${cached} from cache`);
   } else {
     progress.info(`all ${mine.length} dataset results taken from the cache`);
@@ -177,11 +222,11 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
   lap('compute');
   if (shard) {
     progress.info(`shard ${shard.index}/${shard.count}: ${todo.length} computed, ${cached} already cached; run a plain \`lacuna build\` to render`);
-    return { audits: [], computed: todo.length, cached, rendered: [], timings };
+    return { audits: [], computed: todo.length, cached, split, rendered: [], timings };
   }
 
   // 4–5. Assemble and version.
-  const summary: BuildSummary = { audits: [], computed: todo.length, cached, rendered: [], timings };
+  const summary: BuildSummary = { audits: [], computed: todo.length, cached, split, rendered: [], timings };
   const commit = gitCommit(workspace);
   for (const m of manifests) {
     const datasets = jobs.filter((j) => j.manifest === m).map((j) => results.get(j.key)!);

@@ -1,15 +1,20 @@
 /**
  * Compute one dataset's result, or take it from the cache.
  * Runs in the main thread or in a worker (worker.mjs); takes and returns plain values.
+ *
+ * A large activity dataset can also be split by unit ranges: each worker streams its units
+ * through the one-pass engine (`computePassPart`), and the main thread merges the states and
+ * finishes (`finishSplit`); the merged states equal the whole's (test/metrics/activity-pass).
  */
 import { openDataset } from '../readers/index.ts';
 import type { ResolvedDataset, ResolvedManifest } from '../manifest/types.ts';
-import type { DatasetResult, FileProvenance } from '../types.ts';
+import type { ActivitySource, DataSource, DatasetResult, FileProvenance } from '../types.ts';
+import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { TOOL_VERSION } from '../version.ts';
-import { computeActivity } from './activity.ts';
+import { activityResult, computeActivity, runActivityPass, sourceMeta } from './activity.ts';
 import { computeWeights } from './weights.ts';
 import { datasetCacheKey, readCachedDataset, writeCachedDataset } from './cache.ts';
-import { InputError } from '../errors.ts';
+import { InputError, InternalError } from '../errors.ts';
 
 /** The manifest settings that change a dataset's numbers (and so its cache key). */
 export function datasetParameters(m: ResolvedManifest): Record<string, unknown> {
@@ -35,7 +40,31 @@ export interface DatasetJob {
   workspace: string;
   manifest: ResolvedManifest;
   datasetIndex: number;
+  /** Provenance from the build's hash of the inputs; the reader checks the files did not change. */
   files: FileProvenance[];
+}
+
+/** Name the dataset in a reader's error, keeping its cause. */
+function wrap(err: unknown, ds: ResolvedDataset, m: ResolvedManifest): unknown {
+  if (err instanceof InputError) return new InputError(`dataset "${ds.id}" of ${m.relFile} could not be measured`, { cause: err, hint: err.hint });
+  return err;
+}
+
+export async function openForJob(job: DatasetJob): Promise<DataSource> {
+  const m = job.manifest;
+  const ds = m.datasets[job.datasetIndex];
+  try {
+    return await openDataset(ds, { kind: m.kind, binMs: m.bin_ms, workspaceRoot: job.workspace, provenance: job.files });
+  } catch (err) {
+    throw wrap(err, ds, m);
+  }
+}
+
+function checkSameFiles(job: DatasetJob, read: FileProvenance[]): void {
+  const got = new Map(read.map((f) => [f.path, f.sha256]));
+  for (const f of job.files) {
+    if (got.get(f.path) !== f.sha256) throw new InputError('file changed while it was being read', { file: f.path, hint: 'run the build again' });
+  }
 }
 
 /** Compute (cache miss) and store a dataset result; returns it. */
@@ -45,20 +74,45 @@ export async function computeDataset(job: DatasetJob, onBytes: (n: number) => vo
   const cacheKey = keyFor(ds, m, job.files);
   const cached = readCachedDataset(job.workspace, cacheKey);
   if (cached) return cached;
+  const source = await openForJob(job);
   let partial: Omit<DatasetResult, 'cacheKey'>;
   try {
-    const source = await openDataset(ds, { kind: m.kind, binMs: m.bin_ms, workspaceRoot: job.workspace });
     partial = source.kind === 'activity' ? await computeActivity(ds, m, source, onBytes) : await computeWeights(ds, m, source, onBytes);
   } catch (err) {
-    if (err instanceof InputError) throw new InputError(`dataset "${ds.id}" of ${m.relFile} could not be measured`, { cause: err, hint: err.hint });
-    throw err;
+    throw wrap(err, ds, m);
   }
-  // The reader hashed the files it read; they must be the files the key was made from.
-  const read = new Map(partial.files.map((f) => [f.path, f.sha256]));
-  for (const f of job.files) {
-    if (read.get(f.path) !== f.sha256) throw new InputError(`file changed while it was being read`, { file: f.path, hint: 'run the build again' });
-  }
+  checkSameFiles(job, partial.files);
   const result: DatasetResult = { ...partial, cacheKey };
   writeCachedDataset(job.workspace, result);
   return result;
+}
+
+/** One worker's share of a split activity dataset: the pass state over units [unitStart, unitEnd). */
+export async function computePassPart(job: DatasetJob, range: { unitStart: number; unitEnd: number }, onBytes: (n: number) => void = () => {}): Promise<ActivityPassState> {
+  const m = job.manifest;
+  const source = await openForJob(job);
+  if (source.kind !== 'activity') throw new InternalError('computePassPart called on a weights dataset');
+  try {
+    return await runActivityPass(source, m, onBytes, range);
+  } catch (err) {
+    throw wrap(err, m.datasets[job.datasetIndex], m);
+  }
+}
+
+/** Merge the workers' states of a split dataset, finish, and store the result. */
+export async function finishSplit(job: DatasetJob, states: ActivityPassState[]): Promise<DatasetResult> {
+  const m = job.manifest;
+  const ds = m.datasets[job.datasetIndex];
+  const source = (await openForJob(job)) as ActivitySource;
+  const partial = activityResult(ds, m, sourceMeta(source), states);
+  checkSameFiles(job, partial.files);
+  const result: DatasetResult = { ...partial, cacheKey: keyFor(ds, m, job.files) };
+  writeCachedDataset(job.workspace, result);
+  return result;
+}
+
+/** Units of an activity dataset (header only), or null for weights. */
+export async function unitsOf(job: DatasetJob): Promise<number | null> {
+  const source = await openForJob(job);
+  return source.kind === 'activity' ? source.units : null;
 }

@@ -1,26 +1,36 @@
 /**
- * Run dataset jobs on worker threads (one dataset per worker at a time), or in this thread
- * when one worker is asked for. Results come back in job order. Progress (bytes measured)
- * is reported as workers send it. The first failure stops the pool and is rethrown; an
- * InputError from a worker stays an InputError here, with its chain of causes.
+ * Run dataset tasks on worker threads, or in this thread when one worker is asked for.
+ * A task is a whole dataset (→ DatasetResult) or one unit range of a split activity dataset
+ * (→ its pass state). Results come back in task order. Progress (bytes measured) is reported
+ * as workers send it. The first failure stops the pool and is rethrown; an InputError from a
+ * worker stays an InputError here, with its chain of causes.
  */
 import { Worker } from 'node:worker_threads';
 import { InputError, InternalError } from '../errors.ts';
 import type { DatasetResult } from '../types.ts';
-import { computeDataset, type DatasetJob } from './dataset.ts';
+import type { ActivityPassState } from '../metrics/activity-pass.ts';
+import { computeDataset, computePassPart, type DatasetJob } from './dataset.ts';
+
+export type Task = { kind: 'dataset'; job: DatasetJob } | { kind: 'pass'; job: DatasetJob; range: { unitStart: number; unitEnd: number } };
+export type TaskResult = DatasetResult | ActivityPassState;
 
 type Reply =
   | { id: number; progress: number }
-  | { id: number; ok: true; result: DatasetResult }
+  | { id: number; ok: true; result: TaskResult }
   | { id: number; ok: false; input: boolean; message: string; chain: string[]; hint?: string };
 
-export async function runJobs(jobs: DatasetJob[], workers: number, onBytes: (n: number) => void): Promise<DatasetResult[]> {
-  const results: DatasetResult[] = new Array(jobs.length);
+/** Run one task in this thread (also the worker's body). */
+export function runTask(task: Task, onBytes: (n: number) => void): Promise<TaskResult> {
+  return task.kind === 'dataset' ? computeDataset(task.job, onBytes) : computePassPart(task.job, task.range, onBytes);
+}
+
+export async function runTasks(tasks: Task[], workers: number, onBytes: (n: number) => void): Promise<TaskResult[]> {
+  const results: TaskResult[] = new Array(tasks.length);
   if (workers <= 1) {
-    for (let i = 0; i < jobs.length; i++) results[i] = await computeDataset(strip(jobs[i]), onBytes);
+    for (let i = 0; i < tasks.length; i++) results[i] = await runTask(strip(tasks[i]), onBytes);
     return results;
   }
-  const pool = Array.from({ length: Math.min(workers, jobs.length) }, () => new Worker(new URL('./worker.mjs', import.meta.url)));
+  const pool = Array.from({ length: Math.min(workers, tasks.length) }, () => new Worker(new URL('./worker.mjs', import.meta.url)));
   let next = 0;
   try {
     await Promise.all(
@@ -28,9 +38,9 @@ export async function runJobs(jobs: DatasetJob[], workers: number, onBytes: (n: 
         (w) =>
           new Promise<void>((resolve, reject) => {
             const feed = () => {
-              if (next >= jobs.length) return resolve();
+              if (next >= tasks.length) return resolve();
               const id = next++;
-              w.postMessage({ id, job: strip(jobs[id]) });
+              w.postMessage({ id, task: strip(tasks[id]) });
             };
             w.on('message', (msg: Reply) => {
               if ('progress' in msg) return onBytes(msg.progress);
@@ -55,7 +65,8 @@ export async function runJobs(jobs: DatasetJob[], workers: number, onBytes: (n: 
   return results;
 }
 
-/** Only the plain fields a worker needs (structured clone of the job). */
-function strip(j: DatasetJob): DatasetJob {
-  return { workspace: j.workspace, manifest: j.manifest, datasetIndex: j.datasetIndex, files: j.files };
+/** Only the plain fields a worker needs (structured clone of the task). */
+function strip(t: Task): Task {
+  const job = { workspace: t.job.workspace, manifest: t.job.manifest, datasetIndex: t.job.datasetIndex, files: t.job.files };
+  return t.kind === 'dataset' ? { kind: 'dataset', job } : { kind: 'pass', job, range: t.range };
 }

@@ -1,9 +1,9 @@
-/** A worker thread computing datasets on request: { job } in, { ok, result } | { ok: false, error } out. */
+/** A worker thread running tasks on request: { id, task } in, { id, ok, result } | { id, ok: false, … } out. */
 import { parentPort } from 'node:worker_threads';
-import { computeDataset, type DatasetJob } from './dataset.ts';
+import { runTask, type Task } from './pool.ts';
 import { InputError, causeChain } from '../errors.ts';
 
-parentPort!.on('message', async (msg: { id: number; job: DatasetJob }) => {
+parentPort!.on('message', async (msg: { id: number; task: Task }) => {
   let pending = 0;
   const flush = () => {
     if (pending > 0) parentPort!.postMessage({ id: msg.id, progress: pending });
@@ -11,7 +11,7 @@ parentPort!.on('message', async (msg: { id: number; job: DatasetJob }) => {
   };
   const timer = setInterval(flush, 200);
   try {
-    const result = await computeDataset(msg.job, (n) => (pending += n));
+    const result = await runTask(msg.task, (n) => (pending += n));
     flush();
     parentPort!.postMessage({ id: msg.id, ok: true, result });
   } catch (err) {

@@ -166,3 +166,23 @@ describe('manifest text in the report', () => {
     expect(readFileSync(join(out, 'fixture', 'v001', 'index.html'), 'utf8')).toContain('&lt;script&gt;alert(1)&lt;/script&gt;');
   });
 });
+
+describe('one dataset split across worker threads', () => {
+  it('gives the same result as one thread (pass states over unit ranges merge exactly)', async () => {
+    const one = makeWorkspace();
+    const two = makeWorkspace();
+    await buildWorkspace({ workspace: one, out: join(one, '_site'), progress: quiet, workers: '1' });
+    // One dataset, two workers, splitMinBytes 0: the dataset is split by unit ranges.
+    for (const f of ['m2.npy', 'm3.npy']) rmSync(join(two, 'data', f));
+    writeFileSync(join(two, 'audits', 'fixture.md'), readFileSync(join(two, 'audits', 'fixture.md'), 'utf8').replace(/\n  - \{ id: d2.*\n  - \{ id: d3.*/, ''));
+    const s = await buildWorkspace({ workspace: two, out: join(two, '_site'), progress: quiet, workers: '2', splitMinBytes: 0 });
+    expect(s.split).toBe(1);
+    const a = readRecord(one, 'fixture', 'v001').result.datasets[0];
+    const b = readRecord(two, 'fixture', 'v001').result.datasets[0];
+    expect(b.id).toBe('d1');
+    // Same data, same seed: identical numbers, findings and chart data.
+    expect(b.measures).toEqual(a.measures);
+    expect(b.findings).toEqual(a.findings);
+    expect(b.chartData).toEqual(a.chartData);
+  });
+});
