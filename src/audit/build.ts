@@ -25,7 +25,7 @@ import { provenanceOf } from './cache.ts';
 import { computeDataset, finishSplit, keyFor, unitsOf, type DatasetJob } from './dataset.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { readCachedDataset } from './cache.ts';
-import { runTasks, type Task } from './pool.ts';
+import { createPool, type Pool, type Task } from './pool.ts';
 import { buildDrift } from './drift.ts';
 import { compareVersions } from './compare.ts';
 import { describeChange, inputsHash, listVersions, nextVersionName, readRecord, writeRecord, RECORD_FORMAT } from './versions.ts';
@@ -86,10 +86,14 @@ function gitCommit(dir: string): string | null {
  * are more workers than datasets left to share them (the pass states merge exactly).
  */
 export const SPLIT_MIN_BYTES = 128 << 20;
+export const SPLIT_MIN_LANES = 3;
 
 async function planTasks(todo: (DatasetJob & { bytes: number })[], workers: number, minBytes: number): Promise<Task[]> {
   const tasks: Task[] = [];
-  const split = workers >= 2 && todo.length < workers;
+  // Measured on 2 cores (381 MiB, docs/benchmark.md): two lanes over unit ranges took 1.4 s
+  // against 1.2 s for one (memory bandwidth is shared, and the merge and finish are serial),
+  // so splitting starts at three lanes.
+  const split = workers >= SPLIT_MIN_LANES && todo.length < workers;
   for (const job of todo) {
     const units = split && job.manifest.kind === 'activity' && job.bytes >= minBytes ? await unitsOf(job) : null;
     if (units === null || units < 2 * workers) {
@@ -165,6 +169,27 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
   const manifests = await loadAll(workspace, o.audit);
   lap('manifests');
 
+  // Start the worker threads now: their start-up overlaps with hashing the inputs. This thread
+  // is one of the lanes, so `--workers N` means N − 1 worker threads.
+  const pool = createPool(workerCount(o.workers, Infinity) - 1, { mainLane: true });
+  try {
+    return await buildWithPool(o, manifests, pool, shard, timings, lap, now);
+  } finally {
+    await pool.close();
+  }
+}
+
+async function buildWithPool(
+  o: BuildOptions,
+  manifests: ResolvedManifest[],
+  pool: Pool,
+  shard: { index: number; count: number } | null,
+  timings: BuildSummary['timings'],
+  lap: (k: keyof BuildSummary['timings']) => void,
+  now: () => Date,
+): Promise<BuildSummary> {
+  const { workspace, progress } = o;
+
   // 2. Inputs.
   const allFiles = manifests.flatMap((m) => m.datasets.flatMap((d) => d.files.map((abs, i) => ({ abs, rel: d.relFiles[i] }))));
   const hashStep = progress.step('hashing inputs', allFiles.length);
@@ -196,9 +221,8 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
   const cached = mine.length - todo.length;
   if (todo.length) {
     const step = progress.step(`computing ${todo.length} dataset${todo.length === 1 ? '' : 's'}`, todo.reduce((s, j) => s + j.bytes, 0), 'bytes');
-    const workers = workerCount(o.workers, Infinity);
-    const tasks = await planTasks(todo, workers, o.splitMinBytes ?? SPLIT_MIN_BYTES);
-    const out = await runTasks(tasks, Math.min(workers, tasks.length), (n) => step.advance(n));
+    const tasks = await planTasks(todo, pool.lanes, o.splitMinBytes ?? SPLIT_MIN_BYTES);
+    const out = await pool.run(tasks, (n) => step.advance(n));
     const parts = new Map<(typeof todo)[number], ActivityPassState[]>();
     for (let i = 0; i < tasks.length; i++) {
       const t = tasks[i];
@@ -219,6 +243,7 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
   } else {
     progress.info(`all ${mine.length} dataset results taken from the cache`);
   }
+  await pool.close(); // free the workers' memory before rendering
   lap('compute');
   if (shard) {
     progress.info(`shard ${shard.index}/${shard.count}: ${todo.length} computed, ${cached} already cached; run a plain \`lacuna build\` to render`);
