@@ -163,35 +163,55 @@ export function momentsAndBins(
   shiftBy: number,
   yMean: number,
   tol: number,
-  acc: BinAccumulators,
+  acc: BinAccumulators | null,
   hist: Int32Array | null,
   out: RowMoments,
 ): void {
   let s2 = 0, s3 = 0, s4 = 0, s2y = 0, nz = 0, atMax = 0;
+  if (acc === null) return rowMomentsOnly(data, mask, off, bins, clean, mean, max, mode, yMean, tol, hist, out);
   const bs = acc.sum, bq = acc.sumSq, ba = acc.active, bd = acc.partialDefined;
   out.histOk = false;
   if (hist !== null && clean && mode === 0 && shiftBy === 0) {
-    // As the next loop, plus the Gini histogram; any non-integer value ends the histogram.
+    // Non-negative integer candidates: the per-bin sums and the Gini histogram in one light loop;
+    // the row's moments, nonzero and at-max counts then come from the histogram in O(range)
+    // (Σ h[v]·(v − mean)^k: one term per distinct value, so no less accurate than per cell).
+    // A value that is not an integer ends the histogram, and the moments are taken per cell.
     let intOk = true;
     for (let j = 0; j < bins; j++) {
       const x = data[off + j];
-      const d = x - mean;
-      const d2 = d * d;
-      s2 += d2;
-      s3 += d2 * d;
-      s4 += d2 * d2;
       bs[j] += x;
       bq[j] += x * x;
-      if (x > tol || x < -tol) {
-        ba[j]++;
-        nz++;
-      }
-      if (x === max) atMax++;
+      if (x > tol || x < -tol) ba[j]++;
       const i = x | 0;
       if (i === x) hist[i]++;
       else intOk = false;
     }
     out.histOk = intOk;
+    if (intOk) {
+      const top = max | 0;
+      for (let v = 0; v <= top; v++) {
+        const h = hist[v];
+        if (h === 0) continue;
+        const d = v - mean;
+        const d2 = d * d;
+        s2 += h * d2;
+        s3 += h * d2 * d;
+        s4 += h * d2 * d2;
+        if (v > tol) nz += h;
+      }
+      atMax = hist[top];
+    } else {
+      for (let j = 0; j < bins; j++) {
+        const x = data[off + j];
+        const d = x - mean;
+        const d2 = d * d;
+        s2 += d2;
+        s3 += d2 * d;
+        s4 += d2 * d2;
+        if (x > tol || x < -tol) nz++;
+        if (x === max) atMax++;
+      }
+    }
   } else if (clean && mode === 0 && shiftBy === 0) {
     // The common case: y = x, every cell defined. Branches beat bool-to-number here (V8).
     for (let j = 0; j < bins; j++) {
@@ -247,4 +267,80 @@ export function countBinNegatives(data: Numeric, mask: Uint8Array | undefined, o
     const x = data[off + j];
     if (x < 0 && x !== -Infinity && (mask === undefined || mask[off + j] === 0)) binNegative[j]++;
   }
+}
+
+/**
+ * `momentsAndBins` without the per-bin accumulators (the caller adds those tile by tile,
+ * activity-pass-bins.ts): the row's central moment sums, nonzero and at-max counts, Σ(y − ȳ)²
+ * for rectified rows, and the Gini histogram of non-negative integer rows, from which the moments
+ * then come in O(range): Σ h[v]·(v − mean)^k, one term per distinct value.
+ */
+function rowMomentsOnly(
+  data: Numeric,
+  mask: Uint8Array | undefined,
+  off: number,
+  bins: number,
+  clean: boolean,
+  mean: number,
+  max: number,
+  mode: RowMode,
+  yMean: number,
+  tol: number,
+  hist: Int32Array | null,
+  out: RowMoments,
+): void {
+  let s2 = 0, s3 = 0, s4 = 0, s2y = 0, nz = 0, atMax = 0;
+  out.histOk = false;
+  let done = false;
+  if (hist !== null && clean && mode === 0) {
+    let intOk = true;
+    for (let j = 0; j < bins; j++) {
+      const x = data[off + j];
+      const i = x | 0;
+      if (i === x) hist[i]++;
+      else {
+        intOk = false;
+        break;
+      }
+    }
+    out.histOk = intOk;
+    if (intOk) {
+      const top = max | 0;
+      for (let v = 0; v <= top; v++) {
+        const h = hist[v];
+        if (h === 0) continue;
+        const d = v - mean;
+        const d2 = d * d;
+        s2 += h * d2;
+        s3 += h * d2 * d;
+        s4 += h * d2 * d2;
+        if (v > tol) nz += h;
+      }
+      atMax = hist[top];
+      done = true;
+    }
+  }
+  if (!done) {
+    for (let j = 0; j < bins; j++) {
+      const x = data[off + j];
+      if (!clean && (x - x !== 0 || (mask !== undefined && mask[off + j] !== 0))) continue;
+      const d = x - mean;
+      const d2 = d * d;
+      s2 += d2;
+      s3 += d2 * d;
+      s4 += d2 * d2;
+      if (x > tol || x < -tol) nz++;
+      if (x === max) atMax++;
+      if (mode === 1) {
+        const e = (x > 0 ? x : 0) - yMean;
+        s2y += e * e;
+      }
+    }
+  }
+  out.s2 = s2;
+  out.s3 = s3;
+  out.s4 = s4;
+  out.s2y = s2y;
+  out.nonzero = nz;
+  out.atMax = atMax;
 }

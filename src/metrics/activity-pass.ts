@@ -40,6 +40,7 @@ import { countBinNegatives, momentsAndBins, newRowMoments, newRowScan, scanRow, 
 import { hashRow, scanHashFloat32 } from './activity-pass-hash.ts';
 import { COUNTING_RANGE_LIMIT, giniFromHistogram, newGiniScratch, rowGini, zeroedHistogram } from './activity-pass-gini.ts';
 import { rowEvents, type RowEvents } from './activity-pass-events.ts';
+import { accumulateBins, ensureBlockRows, newBlockRows } from './activity-pass-bins.ts';
 
 export type { ActivityPassOptions, ActivityPassState, ActivityPassResult } from './activity-pass-types.ts';
 export { finishActivityPass } from './activity-pass-finish.ts';
@@ -64,6 +65,7 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
   const acc = { partialDefined: st.binPartialDefined, sum: st.binSum, sumSq: st.binSumSq, active: st.binActive };
   const tol = opts.zeroTolerance;
   const policy = opts.negatives;
+  let rows = newBlockRows(64);
   let viewOf: Numeric | null = null;
   let words: Uint32Array = new Uint32Array(0);
 
@@ -81,15 +83,19 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
       viewOf = data;
     }
     const wpc = data.BYTES_PER_ELEMENT / 4;
+    rows = ensureBlockRows(rows, count);
     for (let r = 0; r < count; r++) {
       const u = unitStart + r;
       if (st.seen[u] !== 0) throw new InternalError(`activity pass: unit ${u} added twice`);
       st.seen[u] = 1;
-      processRow(data, mask, r * bins, u, wpc);
+      rows.mode[r] = 3; // adds nothing to the bins unless processRow says otherwise
+      processRow(data, mask, r * bins, u, wpc, r);
     }
+    // The per-bin sums of the whole block, tile by tile (activity-pass-bins.ts).
+    accumulateBins(data, mask, count, bins, rows, tol, acc);
   }
 
-  function processRow(data: Numeric, mask: Uint8Array | undefined, off: number, u: number, wpc: number): void {
+  function processRow(data: Numeric, mask: Uint8Array | undefined, off: number, u: number, wpc: number, r: number): void {
     // Float32 without a mask: scan and hash in one loop (a row with NaN/±Inf is then re-scanned).
     if (mask === undefined && data instanceof Float32Array) {
       if (!scanHashFloat32(data, words, off, bins, scan, hash)) scanRow(data, mask, off, bins, scan);
@@ -128,7 +134,10 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
     // Integer rows ≥ 0 with a small range get their Gini histogram in the same loop.
     const range = Math.ceil(scan.max);
     const hist = clean && scan.min >= 0 && range <= COUNTING_RANGE_LIMIT && range <= 2 * n ? zeroedHistogram(gini, range, bins) : null;
-    momentsAndBins(data, mask, off, bins, clean, mean, scan.max, mode, shiftBy, yMean, tol, acc, hist, mom);
+    momentsAndBins(data, mask, off, bins, clean, mean, scan.max, mode, shiftBy, yMean, tol, null, hist, mom);
+    rows.mode[r] = mode;
+    rows.shift[r] = shiftBy;
+    rows.clean[r] = clean ? 1 : 0;
     if (mode !== 2 && clean) st.fullRows++;
     if (hasNeg) countBinNegatives(data, mask, off, bins, st.binNegative);
     const nonzero = mom.nonzero;
