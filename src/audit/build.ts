@@ -22,7 +22,7 @@ import type { AuditResult, DatasetResult, FileProvenance } from '../types.ts';
 import { TOOL_VERSION } from '../version.ts';
 import type { Progress } from '../cli/progress.ts';
 import { provenanceOf } from './cache.ts';
-import { computeDataset, finishSplit, keyFor, unitsOf, type DatasetJob } from './dataset.ts';
+import { computeDataset, datasetParameters, finishSplit, keyFor, unitsOf, type DatasetJob } from './dataset.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { readCachedDataset } from './cache.ts';
 import { createPool, type Pool, type Task } from './pool.ts';
@@ -137,19 +137,9 @@ async function loadAll(workspace: string, only?: string): Promise<ResolvedManife
   return manifests;
 }
 
+/** Every parameter of an audit, as recorded in its version (the datasets' ones plus drift). */
 export function parametersOf(m: ResolvedManifest): Record<string, unknown> {
-  return {
-    kind: m.kind,
-    axis: m.axis,
-    bin_ms: m.bin_ms,
-    zero_tolerance: m.zero_tolerance,
-    bootstrap: m.bootstrap,
-    negatives: m.negatives,
-    events: m.events,
-    drift: m.drift,
-    min_bins: m.min_bins,
-    min_nonzero: m.min_nonzero,
-  };
+  return { ...datasetParameters(m), drift: m.drift };
 }
 
 export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {

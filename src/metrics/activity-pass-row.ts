@@ -144,122 +144,6 @@ export function newRowMoments(): RowMoments {
  */
 export type RowMode = 0 | 1 | 2;
 
-/**
- * Pass 2 over one row: central moment sums of the raw values, nonzero and at-max counts, and,
- * unless mode 2, the per-bin accumulators of y. `clean` = the row has no excluded cell (then
- * `partialDefined` is not touched: the caller counts the row in `fullRows`). `hist` (zeroed,
- * length > max; only for clean rows with min ≥ 0) also gets the counting-sort histogram for the
- * Gini index, saving it a pass. Cost O(bins).
- */
-export function momentsAndBins(
-  data: Numeric,
-  mask: Uint8Array | undefined,
-  off: number,
-  bins: number,
-  clean: boolean,
-  mean: number,
-  max: number,
-  mode: RowMode,
-  shiftBy: number,
-  yMean: number,
-  tol: number,
-  acc: BinAccumulators | null,
-  hist: Int32Array | null,
-  out: RowMoments,
-): void {
-  let s2 = 0, s3 = 0, s4 = 0, s2y = 0, nz = 0, atMax = 0;
-  if (acc === null) return rowMomentsOnly(data, mask, off, bins, clean, mean, max, mode, yMean, tol, hist, out);
-  const bs = acc.sum, bq = acc.sumSq, ba = acc.active, bd = acc.partialDefined;
-  out.histOk = false;
-  if (hist !== null && clean && mode === 0 && shiftBy === 0) {
-    // Non-negative integer candidates: the per-bin sums and the Gini histogram in one light loop;
-    // the row's moments, nonzero and at-max counts then come from the histogram in O(range)
-    // (Σ h[v]·(v − mean)^k: one term per distinct value, so no less accurate than per cell).
-    // A value that is not an integer ends the histogram, and the moments are taken per cell.
-    let intOk = true;
-    for (let j = 0; j < bins; j++) {
-      const x = data[off + j];
-      bs[j] += x;
-      bq[j] += x * x;
-      if (x > tol || x < -tol) ba[j]++;
-      const i = x | 0;
-      if (i === x) hist[i]++;
-      else intOk = false;
-    }
-    out.histOk = intOk;
-    if (intOk) {
-      const top = max | 0;
-      for (let v = 0; v <= top; v++) {
-        const h = hist[v];
-        if (h === 0) continue;
-        const d = v - mean;
-        const d2 = d * d;
-        s2 += h * d2;
-        s3 += h * d2 * d;
-        s4 += h * d2 * d2;
-        if (v > tol) nz += h;
-      }
-      atMax = hist[top];
-    } else {
-      for (let j = 0; j < bins; j++) {
-        const x = data[off + j];
-        const d = x - mean;
-        const d2 = d * d;
-        s2 += d2;
-        s3 += d2 * d;
-        s4 += d2 * d2;
-        if (x > tol || x < -tol) nz++;
-        if (x === max) atMax++;
-      }
-    }
-  } else if (clean && mode === 0 && shiftBy === 0) {
-    // The common case: y = x, every cell defined. Branches beat bool-to-number here (V8).
-    for (let j = 0; j < bins; j++) {
-      const x = data[off + j];
-      const d = x - mean;
-      const d2 = d * d;
-      s2 += d2;
-      s3 += d2 * d;
-      s4 += d2 * d2;
-      bs[j] += x;
-      bq[j] += x * x;
-      if (x > tol || x < -tol) {
-        ba[j]++;
-        nz++;
-      }
-      if (x === max) atMax++;
-    }
-  } else {
-    for (let j = 0; j < bins; j++) {
-      const x = data[off + j];
-      if (!clean && (x - x !== 0 || (mask !== undefined && mask[off + j] !== 0))) continue;
-      const d = x - mean;
-      const d2 = d * d;
-      s2 += d2;
-      s3 += d2 * d;
-      s4 += d2 * d2;
-      if (x > tol || x < -tol) nz++;
-      if (x === max) atMax++;
-      if (mode === 2) continue;
-      let y: number;
-      if (mode === 1) {
-        y = x > 0 ? x : 0;
-        const e = y - yMean;
-        s2y += e * e;
-      } else y = x - shiftBy;
-      bs[j] += y;
-      bq[j] += y * y;
-      if (y > tol || y < -tol) ba[j]++;
-      if (!clean) bd[j]++;
-    }
-  }
-  out.s2 = s2;
-  out.s3 = s3;
-  out.s4 = s4;
-  out.s2y = s2y;
-  out.nonzero = nz;
-  out.atMax = atMax;
-}
 
 /** Add 1 to `binNegative[j]` for every defined negative cell of the row (only called when it has some). */
 export function countBinNegatives(data: Numeric, mask: Uint8Array | undefined, off: number, bins: number, binNegative: Int32Array): void {
@@ -270,12 +154,14 @@ export function countBinNegatives(data: Numeric, mask: Uint8Array | undefined, o
 }
 
 /**
- * `momentsAndBins` without the per-bin accumulators (the caller adds those tile by tile,
- * activity-pass-bins.ts): the row's central moment sums, nonzero and at-max counts, Σ(y − ȳ)²
- * for rectified rows, and the Gini histogram of non-negative integer rows, from which the moments
- * then come in O(range): Σ h[v]·(v − mean)^k, one term per distinct value.
+ * Pass 2 over one row: central moment sums of the raw values about the raw mean (two-pass),
+ * nonzero and at-max counts, Σ(y − ȳ)² for rectified rows (mode 1), and, when `hist` is given
+ * (zeroed, length > max; clean rows with min ≥ 0), the counting-sort histogram for the Gini
+ * index. When every value is an integer the moments then come from the histogram in O(range):
+ * Σ h[v]·(v − mean)^k, one term per distinct value. The per-bin sums are added separately, tile
+ * by tile (activity-pass-bins.ts). Cost O(bins).
  */
-function rowMomentsOnly(
+export function rowMoments(
   data: Numeric,
   mask: Uint8Array | undefined,
   off: number,

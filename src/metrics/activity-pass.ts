@@ -7,11 +7,13 @@
  *        a. scanRow: counts (defined / NaN / ±Inf / missing / negative), Σx, Σ|x|, Σmax(0,x),
  *           min, max                                                     (activity-pass-row.ts)
  *        b. hashRow: two 32-bit hashes of the row's float bits           (duplicate units)
- *        c. momentsAndBins: Σd², Σd³, Σd⁴ about the raw mean (two-pass), nonzero and at-max
- *           counts, and the policy-transformed y added to the per-bin Σy, Σy², active count
+ *        c. rowMoments: Σd², Σd³, Σd⁴ about the raw mean (two-pass), nonzero and at-max
+ *           counts (from the Gini histogram for integer rows)
  *        d. rowGini: histogram (integer rows, small range) or sorted copy (activity-pass-gini.ts)
  *           (skipped for silent and refused units)
  *        e. rowEvents (optional): median, MAD, event bins                  (activity-pass-events.ts)
+ *      then, for the whole block, tile by tile of bins, the policy-transformed y added to the
+ *      per-bin Σy, Σy² and active count, in unit order                      (activity-pass-bins.ts)
  *   3. `finishActivityPass(state | states[])`: merge disjoint unit ranges, then per-bin
  *      population sparseness and density, duplicates, totals               (activity-pass-finish.ts)
  *
@@ -28,15 +30,15 @@
  * Zeros are ordinary values; NaN, ±Infinity and missing cells are excluded from every measure
  * and counted. Silent units (no |x| > zeroTolerance) get no lifetime measures; constant units
  * get S = 0 and no skewness or kurtosis (m2 = 0).
- * Cost: two passes over each row for float32 integer rows (scan + hash; moments + per-bin sums
- * + Gini histogram), three or four otherwise (separate hash; Gini by sorting, O(bins log bins));
+ * Cost: three passes over each row for float32 integer rows (scan + hash; Gini histogram, whose
+ * counts give the moments; per-bin sums), three or four otherwise (separate hash; Gini by sorting, O(bins log bins));
  * events add two quickselects and a pass. Memory: the state (≈ 100 B a unit, ≈ 40 B a bin) and
  * scratch of 8 B a bin; no allocation per block once the block's 32-bit view is cached.
  */
 import type { Numeric, UnitBlock } from '../types.ts';
 import { InternalError } from '../errors.ts';
 import { checkPassOptions, emptyPassState, type ActivityPassOptions, type ActivityPassState } from './activity-pass-types.ts';
-import { countBinNegatives, momentsAndBins, newRowMoments, newRowScan, scanRow, type RowMode } from './activity-pass-row.ts';
+import { countBinNegatives, rowMoments, newRowMoments, newRowScan, scanRow, type RowMode } from './activity-pass-row.ts';
 import { hashRow, scanHashFloat32 } from './activity-pass-hash.ts';
 import { COUNTING_RANGE_LIMIT, giniFromHistogram, newGiniScratch, rowGini, zeroedHistogram } from './activity-pass-gini.ts';
 import { rowEvents, type RowEvents } from './activity-pass-events.ts';
@@ -134,7 +136,7 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
     // Integer rows ≥ 0 with a small range get their Gini histogram in the same loop.
     const range = Math.ceil(scan.max);
     const hist = clean && scan.min >= 0 && range <= COUNTING_RANGE_LIMIT && range <= 2 * n ? zeroedHistogram(gini, range, bins) : null;
-    momentsAndBins(data, mask, off, bins, clean, mean, scan.max, mode, shiftBy, yMean, tol, null, hist, mom);
+    rowMoments(data, mask, off, bins, clean, mean, scan.max, mode, yMean, tol, hist, mom);
     rows.mode[r] = mode;
     rows.shift[r] = shiftBy;
     rows.clean[r] = clean ? 1 : 0;
