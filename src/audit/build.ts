@@ -86,13 +86,13 @@ function gitCommit(dir: string): string | null {
  * are more workers than datasets left to share them (the pass states merge exactly).
  */
 export const SPLIT_MIN_BYTES = 128 << 20;
-export const SPLIT_MIN_LANES = 3;
+export const SPLIT_MIN_LANES = 2;
 
 async function planTasks(todo: (DatasetJob & { bytes: number })[], workers: number, minBytes: number): Promise<Task[]> {
   const tasks: Task[] = [];
-  // Measured on 2 cores (381 MiB, docs/benchmark.md): two lanes over unit ranges took 1.4 s
-  // against 1.2 s for one (memory bandwidth is shared, and the merge and finish are serial),
-  // so splitting starts at three lanes.
+  // Measured on 2 cores (381 MiB, docs/benchmark.md): two lanes over unit ranges, one range
+  // each, took 0.9–1.1 s against 1.1–1.2 s for one lane; more, smaller ranges were slower
+  // (each range opens the file and allocates a full state).
   const split = workers >= SPLIT_MIN_LANES && todo.length < workers;
   for (const job of todo) {
     const units = split && job.manifest.kind === 'activity' && job.bytes >= minBytes ? await unitsOf(job) : null;
