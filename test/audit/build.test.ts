@@ -13,6 +13,7 @@ import { createRandom } from '../../src/stats/random.ts';
 import { buildWorkspace } from '../../src/audit/build.ts';
 import { listVersions, readRecord } from '../../src/audit/versions.ts';
 import { createProgress } from '../../src/cli/progress.ts';
+import { causeChain } from '../../src/errors.ts';
 import {
   populationSparseness,
   lifetimeSparseness,
@@ -184,5 +185,28 @@ describe('one dataset split across worker threads', () => {
     expect(b.measures).toEqual(a.measures);
     expect(b.findings).toEqual(a.findings);
     expect(b.chartData).toEqual(a.chartData);
+  });
+});
+
+describe('a build that fails part-way', () => {
+  it('leaves the earlier version, its pages and the records exactly as they were', async () => {
+    const ws = makeWorkspace();
+    const out = join(ws, '_site');
+    await buildWorkspace({ workspace: ws, out, progress: quiet, workers: '1' });
+    const pagesBefore = snapshot(out);
+    const recordsBefore = snapshot(join(ws, 'records'));
+    // Change one dataset and truncate another: the build stops on the bad file, after reading others.
+    const m1 = join(ws, 'data', 'm1.npy');
+    const b1 = readFileSync(m1);
+    b1[b1.length - 1] ^= 0x01;
+    writeFileSync(m1, b1);
+    const m3 = join(ws, 'data', 'm3.npy');
+    writeFileSync(m3, readFileSync(m3).subarray(0, 300));
+    const err = await buildWorkspace({ workspace: ws, out, progress: quiet, workers: '1' }).then(() => null, (e: unknown) => e);
+    // The error names the dataset, and its cause the file and the place (printed as a chain by the CLI).
+    expect(causeChain(err).join('\n')).toMatch(/d3[\s\S]*data\/m3\.npy/);
+    expect(listVersions(ws, 'fixture').map((v) => v.version)).toEqual(['v001']);
+    expect(snapshot(join(ws, 'records'))).toEqual(recordsBefore);
+    expect(snapshot(out)).toEqual(pagesBefore);
   });
 });
