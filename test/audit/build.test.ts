@@ -4,7 +4,7 @@
  * the same data; versions are reused or made as the inputs say; old versions are never touched;
  * manifest text cannot inject markup.
  */
-import { describe, it, expect, beforeAll } from 'vitest';
+import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { mkdtempSync, mkdirSync, writeFileSync, readFileSync, readdirSync, statSync, existsSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, relative } from 'node:path';
@@ -51,8 +51,14 @@ ${notes}
 `;
 }
 
+const made: string[] = [];
+afterAll(() => {
+  for (const d of made) rmSync(d, { recursive: true, force: true });
+});
+
 function makeWorkspace(title = 'Fixture audit', notes = 'Plain notes.'): string {
   const ws = mkdtempSync(join(tmpdir(), 'lacuna-build-'));
+  made.push(ws);
   mkdirSync(join(ws, 'audits'));
   mkdirSync(join(ws, 'data'));
   for (const m of [1, 2, 3]) writeNpy(join(ws, 'data', `m${m}.npy`), matrixFor(100 + m), [UNITS, BINS]);

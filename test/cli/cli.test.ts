@@ -4,14 +4,23 @@
  * `compare` naming the known versions, and the preview server refusing paths outside the site.
  * Exit codes as documented in src/cli/main.ts (0 done, 1 input problems, 2 usage).
  */
-import { describe, it, expect, beforeAll } from 'vitest';
+import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync, readFileSync, mkdirSync, symlinkSync } from 'node:fs';
+import { mkdtempSync as mkdtempRaw, writeFileSync, readFileSync, mkdirSync, symlinkSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { resolveStatic } from '../../src/cli/serve.ts';
 
 const BIN = resolve(__dirname, '../../bin/lacuna.mjs');
+const made: string[] = [];
+const mkdtempSync = (prefix: string) => {
+  const d = mkdtempRaw(prefix);
+  made.push(d);
+  return d;
+};
+afterAll(() => {
+  for (const d of made) rmSync(d, { recursive: true, force: true });
+});
 const run = (...args: string[]) => spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', timeout: 120_000, env: { ...process.env, NO_COLOR: '1' } });
 
 describe('lacuna command', () => {
@@ -74,8 +83,8 @@ describe('lacuna command', () => {
 
 describe('preview server paths', () => {
   it('serves files inside the site only', () => {
-    const root = mkdtempSync(join(tmpdir(), 'lacuna-serve-'));
-    mkdirSync(join(root, 'a'));
+    const root = join(mkdtempSync(join(tmpdir(), 'lacuna-serve-')), 'site');
+    mkdirSync(join(root, 'a'), { recursive: true });
     writeFileSync(join(root, 'a', 'index.html'), 'ok');
     writeFileSync(join(root, '..', `secret-${process.pid}.txt`), 'no');
     symlinkSync('/etc', join(root, 'etc-link'));
