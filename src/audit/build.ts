@@ -22,7 +22,7 @@ import type { AuditResult, DatasetResult, FileProvenance } from '../types.ts';
 import { TOOL_VERSION } from '../version.ts';
 import type { Progress } from '../cli/progress.ts';
 import { provenanceOf } from './cache.ts';
-import { computeDataset, datasetParameters, finishSplit, keyFor, unitsOf, type DatasetJob } from './dataset.ts';
+import { datasetParameters, finishSplit, keyFor, unitsOf, type DatasetJob } from './dataset.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { readCachedDataset } from './cache.ts';
 import { createPool, type Pool, type Task } from './pool.ts';
@@ -342,4 +342,3 @@ export async function renderSite(out: string, workspace: string, audits: string[
   return rendered;
 }
 
-export { computeDataset };

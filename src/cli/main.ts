@@ -6,7 +6,6 @@
  * please report it with the printed chain of causes).
  */
 import { resolve, join } from 'node:path';
-import { existsSync, readdirSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
 import { InputError, InputErrors, causeChain } from '../errors.ts';
 import { parseArgs, flagHelp, usage, UsageError, type FlagSpec } from './args.ts';
@@ -153,8 +152,4 @@ export function reportError(err: unknown): number {
   causeChain(err).forEach((c, i) => process.stderr.write(`  ${i + 1}. ${c}\n`));
   if (err instanceof Error && err.stack) process.stderr.write(`${err.stack.split('\n').slice(1, 6).join('\n')}\n`);
   return 70;
-}
-
-export function workspaceHasAudits(dir: string): boolean {
-  return existsSync(join(dir, 'audits')) && readdirSync(join(dir, 'audits')).some((f) => f.endsWith('.md'));
 }
