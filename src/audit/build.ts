@@ -3,8 +3,9 @@
  *
  *   1. manifests  — find and validate every `audits/*.md` (all problems reported together)
  *   2. inputs     — SHA-256 of every data file (cached by size, mtime and inode)
- *   3. compute    — each dataset from the cache, or measured in a worker thread (--shard: only
- *                   this process's share, then stop: a later plain build renders)
+ *   3. compute    — each dataset from the cache, or measured on a lane of the pool (this thread
+ *                   and worker threads; one large dataset split by unit ranges); --shard: only
+ *                   this process's share, then stop: a later plain build renders
  *   4. assemble   — one AuditResult per audit, with drift across months
  *   5. version    — unchanged inputs reuse the latest version; changed inputs write a new record
  *   6. render     — pages for every version not yet in the output folder, the audit's version
@@ -21,10 +22,9 @@ import { InputError, InputErrors } from '../errors.ts';
 import type { AuditResult, DatasetResult, FileProvenance } from '../types.ts';
 import { TOOL_VERSION } from '../version.ts';
 import type { Progress } from '../cli/progress.ts';
-import { provenanceOf } from './cache.ts';
+import { provenanceOf, readCachedDataset } from './cache.ts';
 import { datasetParameters, finishSplit, keyFor, unitsOf, type DatasetJob } from './dataset.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
-import { readCachedDataset } from './cache.ts';
 import { createPool, type Pool, type Task } from './pool.ts';
 import { buildDrift } from './drift.ts';
 import { compareVersions } from './compare.ts';
