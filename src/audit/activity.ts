@@ -11,7 +11,7 @@ import { createActivityPass, finishActivityPass, type ActivityPassResult, type A
 import { activityFindings } from '../metrics/activity-findings.ts';
 import type { ResolvedDataset, ResolvedManifest } from '../manifest/types.ts';
 import type { ActivityChartData, ActivitySource, DatasetResult, Finding, MeasureResult, UnitBlock } from '../types.ts';
-import { summarise, type IntervalPlan } from './summarise.ts';
+import { summariseHere, type IntervalPlan, type SummariseJob } from './summarise.ts';
 
 export const ACTIVITY_SUMMARIES = {
   population_sparseness: "mean over defined bins of each bin's Vinje–Gallant sparseness across units",
@@ -68,8 +68,18 @@ export async function computeActivity(
   return activityResult(ds, m, sourceMeta(source), [await runActivityPass(source, m, onBytes)]);
 }
 
-/** Steps 2–5, from the pass states of one dataset (one state, or several over disjoint units). */
-export function activityResult(ds: ResolvedDataset, m: ResolvedManifest, source: SourceMeta, states: ActivityPassState[]): Omit<DatasetResult, 'cacheKey'> {
+/**
+ * Steps 2–5, from the pass states of one dataset (one state, or several over disjoint units).
+ * `summariser` runs the measures' summaries and intervals: in this thread by default, or spread
+ * over the lanes of the worker pool when a split dataset is finished.
+ */
+export async function activityResult(
+  ds: ResolvedDataset,
+  m: ResolvedManifest,
+  source: SourceMeta,
+  states: ActivityPassState[],
+  summariser: (jobs: SummariseJob[]) => Promise<MeasureResult[]> = summariseHere,
+): Promise<Omit<DatasetResult, 'cacheKey'>> {
   const binMs = source.binMs ?? m.bin_ms;
   // 2. Finish.
   const r = finishActivityPass(states.length === 1 ? states[0] : states);
@@ -93,18 +103,36 @@ export function activityResult(ds: ResolvedDataset, m: ResolvedManifest, source:
   const overUnits: IntervalPlan = { bootstrap: m.bootstrap, over: 'units', axis: m.axis, minItems: 3 };
   const overBins: IntervalPlan = { bootstrap: m.bootstrap, over: 'bins', axis: m.axis, minItems: m.min_bins };
   const u = r.unit;
+  const e = r.events;
+  const jobs: Record<string, SummariseJob> = {
+    population_sparseness: { plan: overBins, stat: { kind: 'mean', values: r.bin.populationSparseness }, summary: ACTIVITY_SUMMARIES.population_sparseness },
+    lifetime_sparseness: { plan: overUnits, stat: { kind: 'mean', values: u.lifetimeSparseness }, summary: ACTIVITY_SUMMARIES.lifetime_sparseness },
+    kurtosis: { plan: overUnits, stat: { kind: 'median', values: u.kurtosis }, summary: ACTIVITY_SUMMARIES.kurtosis },
+    density: { plan: overBins, stat: { kind: 'ratio', numerator: toF64(r.bin.active), denominator: toF64(r.bin.defined) }, summary: ACTIVITY_SUMMARIES.density },
+    hoyer: { plan: overUnits, stat: { kind: 'mean', values: u.hoyer }, summary: ACTIVITY_SUMMARIES.hoyer },
+    gini: { plan: overUnits, stat: { kind: 'mean', values: u.gini }, summary: ACTIVITY_SUMMARIES.gini },
+    activity_ratio: { plan: overUnits, stat: { kind: 'mean', values: u.activityRatio }, summary: ACTIVITY_SUMMARIES.activity_ratio },
+    ...(e
+      ? {
+          event_density: { plan: overBins, stat: { kind: 'ratio', numerator: toF64(e.binEvents), denominator: toF64(e.binDefined) }, summary: `fraction of defined elements that are events (k = ${e.k} robust SDs)` },
+          event_population_sparseness: { plan: overBins, stat: { kind: 'mean', values: e.binPopulationSparseness }, summary: "mean over defined bins of each bin's Vinje–Gallant sparseness of the binary event vector" },
+        }
+      : {}),
+  };
+  const names = Object.keys(jobs);
+  const done = await summariser(names.map((n) => jobs[n]));
+  const result = Object.fromEntries(names.map((n, i) => [n, done[i]]));
   const measures: DatasetResult['measures'] = {
-    population_sparseness: summarise(overBins, { kind: 'mean', values: r.bin.populationSparseness }, ACTIVITY_SUMMARIES.population_sparseness),
-    lifetime_sparseness: summarise(overUnits, { kind: 'mean', values: u.lifetimeSparseness }, ACTIVITY_SUMMARIES.lifetime_sparseness),
-    kurtosis: summarise(overUnits, { kind: 'median', values: u.kurtosis }, ACTIVITY_SUMMARIES.kurtosis),
-    density: summarise(overBins, { kind: 'ratio', numerator: toF64(r.bin.active), denominator: toF64(r.bin.defined) }, ACTIVITY_SUMMARIES.density),
-    hoyer: summarise(overUnits, { kind: 'mean', values: u.hoyer }, ACTIVITY_SUMMARIES.hoyer),
-    gini: summarise(overUnits, { kind: 'mean', values: u.gini }, ACTIVITY_SUMMARIES.gini),
-    activity_ratio: summarise(overUnits, { kind: 'mean', values: u.activityRatio }, ACTIVITY_SUMMARIES.activity_ratio),
+    population_sparseness: result.population_sparseness,
+    lifetime_sparseness: result.lifetime_sparseness,
+    kurtosis: result.kurtosis,
+    density: result.density,
+    hoyer: result.hoyer,
+    gini: result.gini,
+    activity_ratio: result.activity_ratio,
   };
   let eventMeasures: DatasetResult['eventMeasures'];
-  if (r.events) {
-    const e = r.events;
+  if (e) {
     let l0 = 0;
     let l0Units = 0;
     for (let i = 0; i < e.unitEvents.length; i++) if (e.unitEvents[i] >= 0) (l0 += e.unitEvents[i]), l0Units++;
@@ -118,11 +146,7 @@ export function activityResult(ds: ResolvedDataset, m: ResolvedManifest, source:
       summary: `number of event bins (L0) over all units, events at k = ${e.k} robust SDs`,
       note: 'a count, reported without an interval',
     };
-    eventMeasures = {
-      density: summarise(overBins, { kind: 'ratio', numerator: toF64(e.binEvents), denominator: toF64(e.binDefined) }, `fraction of defined elements that are events (k = ${e.k} robust SDs)`),
-      population_sparseness: summarise(overBins, { kind: 'mean', values: e.binPopulationSparseness }, "mean over defined bins of each bin's Vinje–Gallant sparseness of the binary event vector"),
-      l0: l0Result,
-    };
+    eventMeasures = { density: result.event_density, population_sparseness: result.event_population_sparseness, l0: l0Result };
   }
 
   // 5. Chart data.

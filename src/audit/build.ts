@@ -19,7 +19,7 @@ import { join } from 'node:path';
 import { findManifests, loadManifest } from '../manifest/index.ts';
 import type { ResolvedManifest } from '../manifest/types.ts';
 import { InputError, InputErrors } from '../errors.ts';
-import type { AuditResult, DatasetResult, FileProvenance } from '../types.ts';
+import type { AuditResult, DatasetResult, FileProvenance, MeasureResult } from '../types.ts';
 import { TOOL_VERSION } from '../version.ts';
 import type { Progress } from '../cli/progress.ts';
 import { provenanceOf, readCachedDataset } from './cache.ts';
@@ -226,7 +226,8 @@ async function buildWithPool(
     }
     split = parts.size;
     for (const [j, states] of parts) {
-      const r = await finishSplit(j, states);
+      // The measures' intervals of the merged dataset are spread over the lanes too.
+      const r = await finishSplit(j, states, async (jobs) => (await pool.run(jobs.map((job) => ({ kind: 'summarise' as const, job })), () => {})) as MeasureResult[]);
       results.set(r.cacheKey, r);
     }
     step.done(`${cached} from cache`);

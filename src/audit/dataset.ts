@@ -8,7 +8,8 @@
  */
 import { openDataset } from '../readers/index.ts';
 import type { ResolvedDataset, ResolvedManifest } from '../manifest/types.ts';
-import type { ActivitySource, DataSource, DatasetResult, FileProvenance } from '../types.ts';
+import type { ActivitySource, DataSource, DatasetResult, FileProvenance, MeasureResult } from '../types.ts';
+import type { SummariseJob } from './summarise.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { TOOL_VERSION } from '../version.ts';
 import { activityResult, computeActivity, runActivityPass, sourceMeta } from './activity.ts';
@@ -99,12 +100,15 @@ export async function computePassPart(job: DatasetJob, range: { unitStart: numbe
   }
 }
 
-/** Merge the workers' states of a split dataset, finish, and store the result. */
-export async function finishSplit(job: DatasetJob, states: ActivityPassState[]): Promise<DatasetResult> {
+/**
+ * Merge the workers' states of a split dataset, finish, and store the result. `summariser` may
+ * spread the measures' intervals over the pool's lanes.
+ */
+export async function finishSplit(job: DatasetJob, states: ActivityPassState[], summariser?: (jobs: SummariseJob[]) => Promise<MeasureResult[]>): Promise<DatasetResult> {
   const m = job.manifest;
   const ds = m.datasets[job.datasetIndex];
   const source = (await openForJob(job)) as ActivitySource;
-  const partial = activityResult(ds, m, sourceMeta(source), states);
+  const partial = await activityResult(ds, m, sourceMeta(source), states, summariser);
   checkSameFiles(job, partial.files);
   const result: DatasetResult = { ...partial, cacheKey: keyFor(ds, m, job.files) };
   writeCachedDataset(job.workspace, result);

@@ -1,7 +1,8 @@
 /**
  * Run dataset tasks on lanes: worker threads plus, optionally, this thread as one more lane.
- * A task is a whole dataset (→ DatasetResult) or one unit range of a split activity dataset
- * (→ its pass state). Results come back in task order. Progress (bytes measured) is reported
+ * A task is a whole dataset (→ DatasetResult), one unit range of a split activity dataset
+ * (→ its pass state), or one measure's summary and interval of a split dataset being finished
+ * (→ MeasureResult). Results come back in task order. Progress (bytes measured) is reported
  * as lanes send it. The first failure stops handing out tasks and is rethrown; an InputError
  * from a worker stays an InputError here, with its chain of causes.
  *
@@ -11,12 +12,16 @@
  */
 import { Worker } from 'node:worker_threads';
 import { InputError, InternalError } from '../errors.ts';
-import type { DatasetResult } from '../types.ts';
+import type { DatasetResult, MeasureResult } from '../types.ts';
+import { summarise, type SummariseJob } from './summarise.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { computeDataset, computePassPart, type DatasetJob } from './dataset.ts';
 
-export type Task = { kind: 'dataset'; job: DatasetJob } | { kind: 'pass'; job: DatasetJob; range: { unitStart: number; unitEnd: number } };
-export type TaskResult = DatasetResult | ActivityPassState;
+export type Task =
+  | { kind: 'dataset'; job: DatasetJob }
+  | { kind: 'pass'; job: DatasetJob; range: { unitStart: number; unitEnd: number } }
+  | { kind: 'summarise'; job: SummariseJob };
+export type TaskResult = DatasetResult | ActivityPassState | MeasureResult;
 
 type Reply =
   | { id: number; progress: number }
@@ -24,7 +29,8 @@ type Reply =
   | { id: number; ok: false; input: boolean; message: string; chain: string[]; hint?: string };
 
 /** Run one task in this thread (also the worker's body). */
-export function runTask(task: Task, onBytes: (n: number) => void): Promise<TaskResult> {
+export async function runTask(task: Task, onBytes: (n: number) => void): Promise<TaskResult> {
+  if (task.kind === 'summarise') return summarise(task.job.plan, task.job.stat, task.job.summary);
   return task.kind === 'dataset' ? computeDataset(task.job, onBytes) : computePassPart(task.job, task.range, onBytes);
 }
 
@@ -97,6 +103,7 @@ export function createPool(workers: number, options: { mainLane: boolean }): Poo
 
 /** Only the plain fields a worker needs (structured clone of the task). */
 function strip(t: Task): Task {
+  if (t.kind === 'summarise') return t;
   const job = { workspace: t.job.workspace, manifest: t.job.manifest, datasetIndex: t.job.datasetIndex, files: t.job.files };
   return t.kind === 'dataset' ? { kind: 'dataset', job } : { kind: 'pass', job, range: t.range };
 }

@@ -50,11 +50,21 @@ function resamplingFor(plan: IntervalPlan): { resampling: 'iid' | 'moving-block'
  * Summarise per-item values with an interval.
  * `statistic`: 'mean' or 'median' of the defined items, or a ratio of per-item sums.
  */
-export function summarise(
-  plan: IntervalPlan,
-  stat: { kind: 'mean' | 'median'; values: Float64Array } | { kind: 'ratio'; numerator: Float64Array; denominator: Float64Array },
-  summary: string,
-): MeasureResult {
+export type SummaryStat = { kind: 'mean' | 'median'; values: Float64Array } | { kind: 'ratio'; numerator: Float64Array; denominator: Float64Array };
+
+/** One `summarise` call as plain values, so it can run on any lane of the pool. */
+export interface SummariseJob {
+  plan: IntervalPlan;
+  stat: SummaryStat;
+  summary: string;
+}
+
+/** Run summarise jobs one after the other in this thread. */
+export async function summariseHere(jobs: SummariseJob[]): Promise<MeasureResult[]> {
+  return jobs.map((j) => summarise(j.plan, j.stat, j.summary));
+}
+
+export function summarise(plan: IntervalPlan, stat: SummaryStat, summary: string): MeasureResult {
   const items = stat.kind === 'ratio' ? stat.denominator : stat.values;
   let defined = 0;
   if (stat.kind === 'ratio') {
