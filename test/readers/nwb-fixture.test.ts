@@ -12,6 +12,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputError } from '../../src/errors.ts';
 import { inspectNwb, listNwbCandidates, openNwbActivity } from '../../src/readers/nwb.ts';
 import type { ActivityFile } from '../../src/readers/types.ts';
+import { readAll } from '../helpers/read-all.ts';
 
 let dir = '';
 const at = (name: string) => join(dir, name);
@@ -47,13 +48,6 @@ function isReleased(path: string): boolean {
   return ok;
 }
 
-async function readAll(f: ActivityFile): Promise<{ values: number[][]; missing: number[][] }> {
-  const out = new Float64Array(f.units * f.bins);
-  const miss = new Uint8Array(out.length);
-  await f.readUnits(0, f.units, out, f.bins, 0, miss);
-  const rows = (a: ArrayLike<number>) => Array.from({ length: f.units }, (_, u) => Array.from(a).slice(u * f.bins, (u + 1) * f.bins));
-  return { values: rows(out), missing: rows(miss) };
-}
 
 let mixed = '';
 beforeAll(async () => {

@@ -11,6 +11,7 @@ import { describe, expect, it } from 'vitest';
 import { InputError } from '../../src/errors.ts';
 import { inspectNwb, listNwbCandidates, openNwbActivity } from '../../src/readers/nwb.ts';
 import type { ActivityFile } from '../../src/readers/types.ts';
+import { readAll } from '../helpers/read-all.ts';
 
 // test/readers → repository root → its sibling `shared` folder (/work/main/../shared).
 const DIR = resolve(dirname(fileURLToPath(import.meta.url)), '../../../shared/data/nwb');
@@ -19,13 +20,6 @@ const ROI = join(DIR, 'roi-response-series.nwb');
 const present = existsSync(UNITS) && existsSync(ROI);
 if (!present) console.warn(`[lacuna tests] skipping real NWB file tests: ${DIR} is absent`);
 
-async function readAll(f: ActivityFile): Promise<{ values: number[][]; missing: number[][] }> {
-  const out = new Float64Array(f.units * f.bins);
-  const miss = new Uint8Array(out.length);
-  await f.readUnits(0, f.units, out, f.bins, 0, miss);
-  const rows = (a: ArrayLike<number>) => Array.from({ length: f.units }, (_, u) => Array.from(a).slice(u * f.bins, (u + 1) * f.bins));
-  return { values: rows(out), missing: rows(miss) };
-}
 
 describe.skipIf(!present)('NWB units table written by the reference software (units-table.nwb)', () => {
   it('finds the table at /acquisition/UnitsTest by neurodata_type, not at /units', async () => {
