@@ -1,7 +1,7 @@
 #!/usr/bin/env node
-// Entry point: registers tsx so the TypeScript sources run as they are, then hands over.
-import { register } from 'tsx/esm/api';
+// Entry point: runs the compiled JavaScript when it matches the sources, else the TypeScript
+// sources through tsx (see entry.mjs), then hands over.
+import { importLacuna } from './entry.mjs';
 
-register();
-const { main } = await import('../src/cli/main.ts');
-process.exitCode = await main(process.argv.slice(2));
+const { module } = await importLacuna('cli/main');
+process.exitCode = await module.main(process.argv.slice(2));

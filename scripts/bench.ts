@@ -14,8 +14,9 @@
  *      numpy reference uses too.
  *   2. the file is read once (untimed) so both contenders start from a warm page cache;
  *   3. per repeat: (a) a first build from nothing (cache, records and output removed) in a child
- *      process — this same script with `--child-build`, calling `buildWorkspace` and printing its
- *      stage timings; (b) the numpy reference. Each child runs under `/usr/bin/time -v` for its
+ *      process — scripts/bench-child.mjs, which loads Lacuna as `lacuna` does (compiled dist/ when
+ *      current, else the sources through tsx), calls `buildWorkspace` and prints its stage
+ *      timings; (b) the numpy reference. Each child runs under `/usr/bin/time -v` for its
  *      peak RSS when that exists, else /proc/<pid>/status VmHWM is polled every 20 ms.
  *   4. figures (median over repeats): input size, compute stage, whole build, numpy, the ratios,
  *      peak RSS; and the estimates of both side by side (they must agree: same work).
@@ -37,23 +38,6 @@ const GAMMA_SCALE = 0.3;
 function option(name: string, fallback: string): string {
   const i = process.argv.indexOf(`--${name}`);
   return i >= 0 && process.argv[i + 1] !== undefined ? process.argv[i + 1] : fallback;
-}
-
-// ---------------------------------------------------------------------------- child: one build
-if (process.argv.includes('--child-build')) {
-  const { buildWorkspace } = await import('../src/audit/build.ts');
-  const startupMs = performance.now(); // since process start: node, tsx and the build's imports
-  let computeRssKiB: number | null = null;
-  // A silent Progress that notes the peak RSS when the compute step ends (before rendering).
-  const progress = {
-    info() {},
-    step(label: string) {
-      return { advance() {}, done() { if (label.startsWith('computing')) computeRssKiB = process.resourceUsage().maxRSS; } };
-    },
-  };
-  const s = await buildWorkspace({ workspace: option('child-build', ''), out: option('out', ''), workers: 'auto', progress });
-  process.stdout.write(`${JSON.stringify({ timings: s.timings, computed: s.computed, startupMs, computeRssKiB })}\n`);
-  process.exit(0);
 }
 
 // ---------------------------------------------------------------------------- 1. data
@@ -223,7 +207,7 @@ console.log(
   closeSync(fd);
 }
 
-type BuildOut = { timings: Record<'manifests' | 'hash' | 'compute' | 'assemble' | 'render', number>; computed: number; startupMs: number; computeRssKiB: number | null };
+type BuildOut = { timings: Record<'manifests' | 'hash' | 'compute' | 'assemble' | 'render', number>; computed: number; startupMs: number; computeRssKiB: number | null; compiled: boolean };
 type RefOut = {
   seconds: { pass: number; bootstrap: number; total: number };
   estimates: Record<string, number>;
@@ -234,7 +218,7 @@ const builds: { run: Run; out: BuildOut }[] = [];
 const refs: { run: Run; out: RefOut }[] = [];
 for (let r = 0; r < repeat; r++) {
   for (const d of ['.lacuna-cache', 'records', '_site']) rmSync(join(ws, d), { recursive: true, force: true });
-  const nodeArgs = ['--import', 'tsx', ...(profile ? ['--cpu-prof', '--cpu-prof-dir', resolve(profile)] : []), SCRIPT, '--child-build', ws, '--out', out];
+  const nodeArgs = [...(profile ? ['--cpu-prof', '--cpu-prof-dir', resolve(profile)] : []), join(REPO, 'scripts', 'bench-child.mjs'), ws, out];
   const b = await timedChild(process.execPath, nodeArgs);
   builds.push({ run: b, out: lastJson<BuildOut>(b.stdout) });
   const refArgs = [join(REPO, 'scripts', 'bench-reference.py'), file, '--block-length', String(blockLength), '--resamples', '1000', '--seed', String(seed), '--min-nonzero', '10'];
@@ -268,7 +252,7 @@ console.log(`
 input              ${units} units × ${bins} bins float32 = ${mib(inputBytes)} (${inputBytes} bytes); ${repeat} run(s), medians
 reference          numpy ${ref.versions.numpy}, python3; block length ${blockLength}, 1000 percentile resamples
 lacuna compute     ${secs(compute)}   (stage 3: read, one-pass measures, 7 bootstrap intervals)
-lacuna build       ${secs(build)}   (child process wall time, cpu ${secs(buildCpu)}; start-up ${secs(startup)} then stages ${secs(stages)}: ${Object.entries(stageMedians).map(([k, v]) => `${k} ${secs(v)}`).join(', ')})
+lacuna build       ${secs(build)}   (child process wall time, cpu ${secs(buildCpu)}; ran ${builds.every((b) => b.out.compiled) ? 'compiled dist/' : builds.some((b) => b.out.compiled) ? 'mixed (dist/ changed between runs)' : 'src/ through tsx (dist/ absent or stale: npm run compile)'}; start-up ${secs(startup)} then stages ${secs(stages)}: ${Object.entries(stageMedians).map(([k, v]) => `${k} ${secs(v)}`).join(', ')})
 numpy reference    ${secs(numpy)}   (process wall time, cpu ${secs(numpyCpu)}; in-script ${secs(numpyInScript)}: pass ${secs(med(refs.map((p) => p.out.seconds.pass * 1000)))}, bootstrap ${secs(med(refs.map((p) => p.out.seconds.bootstrap * 1000)))}; the rest is interpreter start and numpy import)
 compute / numpy    ${(compute / numpy).toFixed(2)}   (target ≤ 0.5; against numpy's in-script time: ${(compute / numpyInScript).toFixed(2)})
 build / numpy      ${(build / numpy).toFixed(2)}   (target ≤ 1; cpu time ratio ${(buildCpu / numpyCpu).toFixed(2)})

@@ -41,9 +41,16 @@ export interface Pool {
   close(): Promise<void>;
 }
 
+/**
+ * What a worker thread loads: compiled, this file is dist/audit/pool.js and the body sits beside
+ * it as JavaScript; from the sources, a small .mjs bootstrap registers tsx first (a worker
+ * cannot load .ts by itself).
+ */
+const WORKER_ENTRY = import.meta.url.endsWith('.js') ? new URL('./worker-body.js', import.meta.url) : new URL('./worker.mjs', import.meta.url);
+
 /** A pool of `workers` worker threads, plus this thread as a lane when `mainLane`. */
 export function createPool(workers: number, options: { mainLane: boolean }): Pool {
-  const threads = Array.from({ length: Math.max(0, workers) }, () => new Worker(new URL('./worker.mjs', import.meta.url)));
+  const threads = Array.from({ length: Math.max(0, workers) }, () => new Worker(WORKER_ENTRY));
   let closed = false;
   return {
     lanes: threads.length + (options.mainLane ? 1 : 0),

@@ -90,7 +90,9 @@ export async function main(argv: string[]): Promise<number> {
     return 0;
   }
   if (command === '--version') {
-    process.stdout.write(`${TOOL_VERSION}\n`);
+    // How this process runs its code (bin/entry.mjs chooses): useful in a bug report.
+    const how = import.meta.url.endsWith('.js') ? 'compiled JavaScript in dist/' : 'TypeScript sources through tsx';
+    process.stdout.write(`${TOOL_VERSION} (${how})\n`);
     return 0;
   }
   const spec = COMMANDS[command];
