@@ -2,7 +2,7 @@
  * The benchmark: one whole `lacuna build` of a large activity matrix against what a careful
  * lab member would write in numpy (scripts/bench-reference.py), on the same file.
  *
- *   npm run bench -- [--units 2000] [--bins 50000] [--repeat 1] [--seed 1] [--profile DIR]
+ *   npm run bench -- [--units 2000] [--bins 50000] [--repeat 1] [--seed 1] [--profile DIR] [--node-flags "…"]
  *
  *   1. data: a seeded units × bins float32 matrix of Poisson counts, each unit's rate drawn from
  *      a gamma distribution (shape 0.7, scale 0.3 spikes a bin: mean 0.21, a long tail of busy
@@ -214,11 +214,15 @@ type RefOut = {
   interval: { lower: number; upper: number };
   versions: { numpy: string };
 };
+// The V8 flags `lacuna` runs with: those on bin/lacuna.mjs's `#!/usr/bin/env -S node …` line
+// (the npm scripts pass the same), unless `--node-flags "…"` says otherwise (to compare).
+const shebang = readFileSync(join(REPO, 'bin', 'lacuna.mjs'), 'utf8').split('\n')[0];
+const nodeFlags = (process.argv.includes('--node-flags') ? option('node-flags', '') : shebang.replace(/^#!.*?\bnode\b/, '')).split(/\s+/).filter(Boolean);
 const builds: { run: Run; out: BuildOut }[] = [];
 const refs: { run: Run; out: RefOut }[] = [];
 for (let r = 0; r < repeat; r++) {
   for (const d of ['.lacuna-cache', 'records', '_site']) rmSync(join(ws, d), { recursive: true, force: true });
-  const nodeArgs = [...(profile ? ['--cpu-prof', '--cpu-prof-dir', resolve(profile)] : []), join(REPO, 'scripts', 'bench-child.mjs'), ws, out];
+  const nodeArgs = [...nodeFlags, ...(profile ? ['--cpu-prof', '--cpu-prof-dir', resolve(profile)] : []), join(REPO, 'scripts', 'bench-child.mjs'), ws, out];
   const b = await timedChild(process.execPath, nodeArgs);
   builds.push({ run: b, out: lastJson<BuildOut>(b.stdout) });
   const refArgs = [join(REPO, 'scripts', 'bench-reference.py'), file, '--block-length', String(blockLength), '--resamples', '1000', '--seed', String(seed), '--min-nonzero', '10'];
@@ -252,7 +256,7 @@ console.log(`
 input              ${units} units × ${bins} bins float32 = ${mib(inputBytes)} (${inputBytes} bytes); ${repeat} run(s), medians
 reference          numpy ${ref.versions.numpy}, python3; block length ${blockLength}, 1000 percentile resamples
 lacuna compute     ${secs(compute)}   (stage 3: read, one-pass measures, 7 bootstrap intervals)
-lacuna build       ${secs(build)}   (child process wall time, cpu ${secs(buildCpu)}; ran ${builds.every((b) => b.out.compiled) ? 'compiled dist/' : builds.some((b) => b.out.compiled) ? 'mixed (dist/ changed between runs)' : 'src/ through tsx (dist/ absent or stale: npm run compile)'}; start-up ${secs(startup)} then stages ${secs(stages)}: ${Object.entries(stageMedians).map(([k, v]) => `${k} ${secs(v)}`).join(', ')})
+lacuna build       ${secs(build)}   (child process wall time, cpu ${secs(buildCpu)}; node ${nodeFlags.join(' ') || '(no flags)'}; ran ${builds.every((b) => b.out.compiled) ? 'compiled dist/' : builds.some((b) => b.out.compiled) ? 'mixed (dist/ changed between runs)' : 'src/ through tsx (dist/ absent or stale: npm run compile)'}; start-up ${secs(startup)} then stages ${secs(stages)}: ${Object.entries(stageMedians).map(([k, v]) => `${k} ${secs(v)}`).join(', ')})
 numpy reference    ${secs(numpy)}   (process wall time, cpu ${secs(numpyCpu)}; in-script ${secs(numpyInScript)}: pass ${secs(med(refs.map((p) => p.out.seconds.pass * 1000)))}, bootstrap ${secs(med(refs.map((p) => p.out.seconds.bootstrap * 1000)))}; the rest is interpreter start and numpy import)
 compute / numpy    ${(compute / numpy).toFixed(2)}   (target ≤ 0.5; against numpy's in-script time: ${(compute / numpyInScript).toFixed(2)})
 build / numpy      ${(build / numpy).toFixed(2)}   (target ≤ 1; cpu time ratio ${(buildCpu / numpyCpu).toFixed(2)})

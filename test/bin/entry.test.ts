@@ -88,3 +88,13 @@ describe('compiled and source runs', () => {
     }
   });
 });
+
+describe('V8 flags', () => {
+  it('the npm scripts run lacuna with the flags on its #! line (the ones the benchmark measures)', () => {
+    const shebang = readFileSync(BIN, 'utf8').split('\n')[0];
+    const flags = shebang.replace(/^#!\/usr\/bin\/env -S node/, '').trim();
+    expect(flags).toMatch(/^--max-semi-space-size=\d+$/);
+    const scripts = (JSON.parse(readFileSync(join(REPO, 'package.json'), 'utf8')) as { scripts: Record<string, string> }).scripts;
+    for (const name of ['demo', 'build', 'check']) expect(scripts[name], name).toBe(`node ${flags} bin/lacuna.mjs ${name}`);
+  });
+});
