@@ -10,6 +10,7 @@
  * 0 and −0, or two NaN payloads, hash differently. Cost O(bins), no allocation.
  */
 import { cleanScan, type RowScan } from './activity-pass-row.ts';
+import { COUNTING_RANGE_LIMIT } from './activity-pass-gini.ts';
 
 const FNV_PRIME = 16777619;
 const FNV_BASIS = 2166136261;
@@ -92,4 +93,71 @@ export function scanHashFloat32(data: Float32Array, words: Uint32Array, off: num
   if (sum - sum !== 0) return false;
   cleanScan(data, off, bins, sum, min, max, out);
   return true;
+}
+
+/**
+ * `scanHashFloat32` with the Gini histogram counted in the same loop, so that an integer row
+ * (spike counts) is read twice in all instead of three times: here, and for the per-bin sums.
+ * `hist` (length > COUNTING_RANGE_LIMIT) must be all zero on entry.
+ * Returns 1 when every cell is an integer in [0, COUNTING_RANGE_LIMIT]: `hist[v]` then holds how
+ * many cells equal v, and the caller zeroes `hist[0 ..= max]` after using it. Returns 0 for a
+ * finite row that is not (`out` filled) and −1 for a row with NaN or ±Infinity (`out` untouched,
+ * as `scanHashFloat32` returning false); in both cases `hist` is left all zero again.
+ */
+export function scanHashHistFloat32(data: Float32Array, words: Uint32Array, off: number, bins: number, out: RowScan, hash: Uint32Array, hist: Int32Array): -1 | 0 | 1 {
+  let a0 = FNV_BASIS, a1 = A1, b0 = B0, b1 = B1;
+  let sum = 0, min = Infinity, max = -Infinity;
+  // While `counting`, every cell so far is an integer in [0, LIMIT] and is counted in `hist`, and
+  // `max` (updated after the check) is the largest counted value: what to zero if counting stops.
+  let counting = true;
+  let countedTop = -1;
+  const LIMIT = COUNTING_RANGE_LIMIT;
+  let j = 0;
+  for (; j + 1 < bins; j += 2) {
+    const x0 = data[off + j], x1 = data[off + j + 1];
+    const w0 = words[off + j], w1 = words[off + j + 1];
+    if (counting) {
+      const i0 = x0 | 0, i1 = x1 | 0;
+      if (i0 === x0 && i1 === x1 && i0 >= 0 && i1 >= 0 && i0 <= LIMIT && i1 <= LIMIT) {
+        hist[i0]++;
+        hist[i1]++;
+      } else {
+        counting = false;
+        countedTop = max;
+      }
+    }
+    sum += x0;
+    sum += x1;
+    if (x0 > max) max = x0;
+    if (x0 < min) min = x0;
+    if (x1 > max) max = x1;
+    if (x1 < min) min = x1;
+    a0 = Math.imul(a0 ^ w0, FNV_PRIME);
+    a1 = Math.imul(a1 ^ w1, FNV_PRIME);
+    b0 = Math.imul(b0 ^ w0, MIX_PRIME);
+    b1 = Math.imul(b1 ^ w1, MIX_PRIME);
+    b0 ^= b0 >>> 15;
+    b1 ^= b1 >>> 15;
+  }
+  if (j < bins) {
+    const x = data[off + j];
+    if (counting) {
+      const i = x | 0;
+      if (i === x && i >= 0 && i <= LIMIT) hist[i]++;
+      else {
+        counting = false;
+        countedTop = max;
+      }
+    }
+    sum += x;
+    if (x > max) max = x;
+    if (x < min) min = x;
+    a0 = Math.imul(a0 ^ words[off + j], FNV_PRIME);
+    b0 = Math.imul(b0 ^ words[off + j], MIX_PRIME);
+  }
+  fold(a0, a1, b0, b1, bins, hash);
+  if (!counting && countedTop >= 0) hist.fill(0, 0, countedTop + 1);
+  if (sum - sum !== 0) return -1; // (a NaN or ±Infinity also stopped the counting)
+  cleanScan(data, off, bins, sum, min, max, out);
+  return counting ? 1 : 0;
 }

@@ -158,8 +158,9 @@ export function countBinNegatives(data: Numeric, mask: Uint8Array | undefined, o
  * nonzero and at-max counts, Σ(y − ȳ)² for rectified rows (mode 1), and, when `hist` is given
  * (zeroed, length > max; clean rows with min ≥ 0), the counting-sort histogram for the Gini
  * index. When every value is an integer the moments then come from the histogram in O(range):
- * Σ h[v]·(v − mean)^k, one term per distinct value. The per-bin sums are added separately, tile
- * by tile (activity-pass-bins.ts). Cost O(bins).
+ * Σ h[v]·(v − mean)^k, one term per distinct value. `histFilled`: the scan already counted the
+ * row into `hist` (every value an integer in range), so only the O(range) part runs. The per-bin
+ * sums are added separately, tile by tile (activity-pass-bins.ts). Cost O(bins).
  */
 export function rowMoments(
   data: Numeric,
@@ -174,13 +175,14 @@ export function rowMoments(
   tol: number,
   hist: Int32Array | null,
   out: RowMoments,
+  histFilled = false,
 ): void {
   let s2 = 0, s3 = 0, s4 = 0, s2y = 0, nz = 0, atMax = 0;
   out.histOk = false;
   let done = false;
   if (hist !== null && clean && mode === 0) {
     let intOk = true;
-    for (let j = 0; j < bins; j++) {
+    if (!histFilled) for (let j = 0; j < bins; j++) {
       const x = data[off + j];
       const i = x | 0;
       if (i === x) hist[i]++;

@@ -30,8 +30,9 @@
  * Zeros are ordinary values; NaN, ±Infinity and missing cells are excluded from every measure
  * and counted. Silent units (no |x| > zeroTolerance) get no lifetime measures; constant units
  * get S = 0 and no skewness or kurtosis (m2 = 0).
- * Cost: three passes over each row for float32 integer rows (scan + hash; Gini histogram, whose
- * counts give the moments; per-bin sums), three or four otherwise (separate hash; Gini by sorting, O(bins log bins));
+ * Cost: two passes over each row for float32 integer rows (scan + hash + Gini histogram, whose
+ * counts give the moments; per-bin sums), three or four otherwise (separate hash; moments; Gini
+ * by histogram or sorting, O(bins log bins));
  * events add two quickselects and a pass. Memory: the state (≈ 100 B a unit, ≈ 40 B a bin) and
  * scratch of 8 B a bin; no allocation per block once the block's 32-bit view is cached.
  */
@@ -39,7 +40,7 @@ import type { Numeric, UnitBlock } from '../types.ts';
 import { InternalError } from '../errors.ts';
 import { checkPassOptions, emptyPassState, type ActivityPassOptions, type ActivityPassState } from './activity-pass-types.ts';
 import { countBinNegatives, rowMoments, newRowMoments, newRowScan, scanRow, type RowMode } from './activity-pass-row.ts';
-import { hashRow, scanHashFloat32 } from './activity-pass-hash.ts';
+import { hashRow, scanHashHistFloat32 } from './activity-pass-hash.ts';
 import { COUNTING_RANGE_LIMIT, giniFromHistogram, newGiniScratch, rowGini, zeroedHistogram } from './activity-pass-gini.ts';
 import { rowEvents, type RowEvents } from './activity-pass-events.ts';
 import { accumulateBins, ensureBlockRows, newBlockRows } from './activity-pass-bins.ts';
@@ -70,6 +71,8 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
   let rows = newBlockRows(64);
   let viewOf: Numeric | null = null;
   let words: Uint32Array = new Uint32Array(0);
+  // Counts of a Float32 row's values, filled by the scan itself (all zero between rows).
+  let scanHist: Int32Array | null = null;
 
   function addBlock(block: UnitBlock): void {
     const { unitStart, units: count, data, missing: mask } = block;
@@ -98,9 +101,15 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
   }
 
   function processRow(data: Numeric, mask: Uint8Array | undefined, off: number, u: number, wpc: number, r: number): void {
-    // Float32 without a mask: scan and hash in one loop (a row with NaN/±Inf is then re-scanned).
+    // Float32 without a mask: scan, hash and the value histogram in one loop (a row with NaN/±Inf
+    // is then re-scanned). `counted`: every value is an integer in [0, COUNTING_RANGE_LIMIT] and
+    // scanHist holds the row's counts (zeroed again below, once used).
+    let counted = false;
     if (mask === undefined && data instanceof Float32Array) {
-      if (!scanHashFloat32(data, words, off, bins, scan, hash)) scanRow(data, mask, off, bins, scan);
+      scanHist ??= new Int32Array(COUNTING_RANGE_LIMIT + 1);
+      const r = scanHashHistFloat32(data, words, off, bins, scan, hash, scanHist);
+      if (r < 0) scanRow(data, mask, off, bins, scan);
+      counted = r === 1;
     } else {
       hashRow(words, off * wpc, bins * wpc, mask, off, bins, hash);
       scanRow(data, mask, off, bins, scan);
@@ -113,7 +122,7 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
     st.infinite[u] = scan.infinite;
     st.missing[u] = scan.missing;
     st.negative[u] = scan.negative;
-    if (n === 0) return; // nothing defined: every measure stays NaN (an empty unit)
+    if (n === 0) return; // nothing defined: every measure stays NaN (an empty unit; never `counted`)
     st.min[u] = scan.min;
     st.max[u] = scan.max;
     const clean = n === bins;
@@ -133,10 +142,14 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
       }
     }
     st.changed[u] = changed;
-    // Integer rows ≥ 0 with a small range get their Gini histogram in the same loop.
+    // Integer rows ≥ 0 with a small range get their Gini histogram from the scan (Float32) or
+    // from the moments loop; their moments then come from the histogram.
     const range = Math.ceil(scan.max);
-    const hist = clean && scan.min >= 0 && range <= COUNTING_RANGE_LIMIT && range <= 2 * n ? zeroedHistogram(gini, range, bins) : null;
-    rowMoments(data, mask, off, bins, clean, mean, scan.max, mode, yMean, tol, hist, mom);
+    const useHist = clean && scan.min >= 0 && range <= COUNTING_RANGE_LIMIT && range <= 2 * n;
+    if (counted && !useHist) scanHist!.fill(0, 0, range + 1);
+    const filled = counted && useHist;
+    const hist = filled ? scanHist : useHist ? zeroedHistogram(gini, range, bins) : null;
+    rowMoments(data, mask, off, bins, clean, mean, scan.max, mode, yMean, tol, hist, mom, filled);
     rows.mode[r] = mode;
     rows.shift[r] = shiftBy;
     rows.clean[r] = clean ? 1 : 0;
@@ -168,6 +181,7 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
       }
       st.gini[u] = hist !== null && mom.histOk ? giniFromHistogram(hist, range, n, l1) : rowGini(data, mask, off, bins, n, l1, mode, shiftBy, maxAbsY, gini);
     }
+    if (filled) scanHist!.fill(0, 0, range + 1);
 
     const ev = opts.events;
     if (ev !== null) {

@@ -8,7 +8,9 @@ import { createActivityPass, finishActivityPass, type ActivityPassOptions, type 
 import type { NegativesPolicy } from '../../src/manifest/types.ts';
 import { hashRow, scanHashFloat32 } from '../../src/metrics/activity-pass-hash.ts';
 import { newRowScan } from '../../src/metrics/activity-pass-row.ts';
-import { blocksOf, close, mixedMatrix, runPass, toArrays } from './activity-pass-fixtures.ts';
+import { blocksOf, close, mixedMatrix, mulberry32, poisson, runPass, toArrays } from './activity-pass-fixtures.ts';
+import { giniIndex } from '../../src/metrics/gini.ts';
+import { excessKurtosis } from '../../src/metrics/kurtosis.ts';
 
 // Reference per unit and per bin computed by numpy/scipy from the same matrix: scipy.stats.skew
 // and scipy.stats.kurtosis with bias=True (g1, g2), numpy formulas for a, S, Hoyer and the
@@ -209,5 +211,46 @@ describe('row hash', () => {
     const pass = createActivityPass({ units: 3, bins }, { zeroTolerance: 0, negatives: 'keep', events: null, minNonzero: 0 });
     pass.addBlock({ unitStart: 0, units: 3, bins, data });
     expect(finishActivityPass(pass.state()).duplicates).toEqual([[0, 2]]);
+  });
+});
+
+describe('value histogram counted by the float32 scan', () => {
+  // Integer float32 rows are counted into the Gini histogram during the scan (its counts also
+  // give the moments). Where the counting stops part-way (a non-integer, a value above the
+  // counting range, a negative, NaN), the counts must be cleared, or they would leak into the
+  // next row. Each such row is followed by a plain integer row. References: the stand-alone
+  // giniIndex and excessKurtosis (Hurley & Rickard 2009; Joanes & Gill 1998; themselves checked
+  // against published values and scipy in their own tests), and the float64 pass, which never
+  // counts during the scan.
+  const bins = 101; // odd: the scan's last, unpaired cell is counted on its own
+  const rand = mulberry32(2027);
+  const intRow = () => Array.from({ length: bins }, () => poisson(rand, 1.5));
+  const stopAt = (v: number, at: number) => intRow().map((x, j) => (j === at ? v : x));
+  const rows: number[][] = [
+    intRow(),
+    stopAt(0.5, 60), intRow(),
+    stopAt(70_000, 99), intRow(),
+    stopAt(2.25, bins - 1), intRow(),
+    stopAt(-1, 3), intRow(),
+    stopAt(NaN, 40), intRow(),
+    new Array(bins).fill(0), intRow(),
+    stopAt(300, 0), intRow(), // range > 2 × bins: counted, then not used (Gini sorts)
+  ];
+  const m = { units: rows.length, bins, values: rows.flat().map((v) => (Number.isNaN(v) ? 0 : v)), code: rows.flat().map((v) => (Number.isNaN(v) ? 1 : 0)) };
+  const opts: ActivityPassOptions = { zeroTolerance: 0, negatives: 'keep', events: null, minNonzero: 1 };
+
+  it('each row matches the stand-alone measures, and the float64 pass bit for bit', () => {
+    const f32 = runPass(m, opts, 'f32', 3);
+    const f64 = runPass(m, opts, 'f64', 3);
+    rows.forEach((row, u) => {
+      const defined = row.filter((v) => !Number.isNaN(v));
+      const g = defined.some((v) => v < 0) ? null : giniIndex(defined); // (negatives kept: Gini of |y|)
+      if (g !== null) expect(close(f32.unit.gini[u], g), `gini, row ${u}`).toBe(true);
+      const k = excessKurtosis(defined);
+      expect(close(f32.unit.kurtosis[u], k), `kurtosis, row ${u}`).toBe(true);
+      for (const key of ['gini', 'kurtosis', 'skewness', 'lifetimeSparseness', 'hoyer'] as const) {
+        expect(Object.is(f32.unit[key][u], f64.unit[key][u]) || f32.unit[key][u] === f64.unit[key][u], `${key}, row ${u}`).toBe(true);
+      }
+    });
   });
 });
