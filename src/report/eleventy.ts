@@ -9,6 +9,7 @@
  * `configPath: ''` stops Eleventy from loading any config file from the working directory (a
  * lab's workspace could hold one, and it would run as code).
  */
+import './eleventy-env.ts'; // first: switches off Eleventy's watch-mode import hook (see there)
 import Eleventy from '@11ty/eleventy';
 import type { EleventyUserConfig } from '@11ty/eleventy';
 import { fileURLToPath } from 'node:url';
