@@ -61,31 +61,61 @@ export async function sha256File(path: string, onBytes?: (n: number) => void): P
 
 type HashEntry = { size: number; mtimeMs: number; ino: number; sha256: string };
 
-/** Provenance of files, hashing only those whose size, mtime or inode changed since last time. */
+/** A file whose SHA-256 must be computed, with the stat it had when planned. */
+export interface FileToHash {
+  abs: string;
+  rel: string;
+  size: number;
+  mtimeMs: number;
+  ino: number;
+}
+
+/**
+ * Which of `files` need hashing: those whose size, mtime or inode changed since they were last
+ * hashed (or never were). The others' provenance comes from `hashes.json` without reading them.
+ */
+export function planHashes(workspace: string, files: { abs: string; rel: string }[]): { known: Map<string, FileProvenance>; toHash: FileToHash[] } {
+  const index = readJson<Record<string, HashEntry>>(join(cacheDir(workspace), 'hashes.json')) ?? {};
+  const known = new Map<string, FileProvenance>();
+  const toHash: FileToHash[] = [];
+  const planned = new Set<string>();
+  for (const f of files) {
+    if (known.has(f.rel) || planned.has(f.rel)) continue;
+    const st = statSync(f.abs);
+    const k = index[f.rel];
+    if (k && k.size === st.size && k.mtimeMs === st.mtimeMs && k.ino === st.ino) known.set(f.rel, { path: f.rel, sha256: k.sha256, bytes: st.size });
+    else {
+      toHash.push({ abs: f.abs, rel: f.rel, size: st.size, mtimeMs: st.mtimeMs, ino: st.ino });
+      planned.add(f.rel);
+    }
+  }
+  return { known, toHash };
+}
+
+/** Record freshly computed hashes in `hashes.json` (merged with what is there now; atomic). */
+export function recordHashes(workspace: string, hashed: { file: FileToHash; sha256: string }[]): void {
+  if (!hashed.length) return;
+  const store = join(cacheDir(workspace), 'hashes.json');
+  const merged = readJson<Record<string, HashEntry>>(store) ?? {};
+  for (const { file, sha256 } of hashed) merged[file.rel] = { size: file.size, mtimeMs: file.mtimeMs, ino: file.ino, sha256 };
+  atomicWriteJson(store, merged);
+}
+
+/** Provenance of files, hashing (in this thread) only those `planHashes` says need it. */
 export async function provenanceOf(
   workspace: string,
   files: { abs: string; rel: string }[],
   onBytes?: (n: number) => void,
 ): Promise<FileProvenance[]> {
-  const store = join(cacheDir(workspace), 'hashes.json');
-  const known = readJson<Record<string, HashEntry>>(store) ?? {};
-  let dirty = false;
-  const out: FileProvenance[] = [];
-  for (const f of files) {
-    const st = statSync(f.abs);
-    const k = known[f.rel];
-    let sha: string;
-    if (k && k.size === st.size && k.mtimeMs === st.mtimeMs && k.ino === st.ino) {
-      sha = k.sha256;
-    } else {
-      sha = await sha256File(f.abs, onBytes);
-      known[f.rel] = { size: st.size, mtimeMs: st.mtimeMs, ino: st.ino, sha256: sha };
-      dirty = true;
-    }
-    out.push({ path: f.rel, sha256: sha, bytes: st.size });
+  const { known, toHash } = planHashes(workspace, files);
+  const hashed: { file: FileToHash; sha256: string }[] = [];
+  for (const file of toHash) {
+    const sha256 = await sha256File(file.abs, onBytes);
+    hashed.push({ file, sha256 });
+    known.set(file.rel, { path: file.rel, sha256, bytes: file.size });
   }
-  if (dirty) atomicWriteJson(store, { ...(readJson<Record<string, HashEntry>>(store) ?? {}), ...known });
-  return out;
+  recordHashes(workspace, hashed);
+  return files.map((f) => known.get(f.rel)!);
 }
 
 export function datasetCacheKey(parts: { files: FileProvenance[]; entry: unknown; parameters: unknown; toolVersion: string }): string {

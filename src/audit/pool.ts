@@ -1,8 +1,8 @@
 /**
  * Run dataset tasks on lanes: worker threads plus, optionally, this thread as one more lane.
- * A task is a whole dataset (→ DatasetResult), one unit range of a split activity dataset
- * (→ its pass state), or one measure's summary and interval of a split dataset being finished
- * (→ MeasureResult). Results come back in task order. Progress (bytes measured) is reported
+ * A task is the SHA-256 of one input file (→ hex string), a whole dataset (→ DatasetResult),
+ * one unit range of a split activity dataset (→ its pass state), or one measure's summary and
+ * interval of a split dataset being finished (→ MeasureResult). Results come back in task order. Progress (bytes measured) is reported
  * as lanes send it. The first failure stops handing out tasks and is rethrown; an InputError
  * from a worker stays an InputError here, with its chain of causes.
  *
@@ -16,12 +16,14 @@ import type { DatasetResult, MeasureResult } from '../types.ts';
 import { summarise, type SummariseJob } from './summarise.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { computeDataset, computePassPart, type DatasetJob } from './dataset.ts';
+import { sha256File } from './cache.ts';
 
 export type Task =
+  | { kind: 'hash'; path: string }
   | { kind: 'dataset'; job: DatasetJob }
   | { kind: 'pass'; job: DatasetJob; range: { unitStart: number; unitEnd: number } }
   | { kind: 'summarise'; job: SummariseJob };
-export type TaskResult = DatasetResult | ActivityPassState | MeasureResult;
+export type TaskResult = DatasetResult | ActivityPassState | MeasureResult | string;
 
 type Reply =
   | { id: number; progress: number }
@@ -30,6 +32,7 @@ type Reply =
 
 /** Run one task in this thread (also the worker's body). */
 export async function runTask(task: Task, onBytes: (n: number) => void): Promise<TaskResult> {
+  if (task.kind === 'hash') return sha256File(task.path, onBytes);
   if (task.kind === 'summarise') return summarise(task.job.plan, task.job.stat, task.job.summary);
   return task.kind === 'dataset' ? computeDataset(task.job, onBytes) : computePassPart(task.job, task.range, onBytes);
 }
@@ -37,7 +40,11 @@ export async function runTask(task: Task, onBytes: (n: number) => void): Promise
 export interface Pool {
   /** Number of lanes: worker threads, plus one when this thread works too. */
   lanes: number;
-  run(tasks: Task[], onBytes: (n: number) => void): Promise<TaskResult[]>;
+  /**
+   * Run `tasks`; with `mainLaneAfter`, this thread takes tasks only once that promise settles
+   * (it is busy with other work meanwhile, e.g. loading the render modules).
+   */
+  run(tasks: Task[], onBytes: (n: number) => void, options?: { mainLaneAfter?: Promise<unknown> }): Promise<TaskResult[]>;
   close(): Promise<void>;
 }
 
@@ -54,13 +61,14 @@ export function createPool(workers: number, options: { mainLane: boolean }): Poo
   let closed = false;
   return {
     lanes: threads.length + (options.mainLane ? 1 : 0),
-    async run(tasks, onBytes) {
+    async run(tasks, onBytes, runOptions = {}) {
       if (closed) throw new InternalError('pool used after close');
       const results: TaskResult[] = new Array(tasks.length);
       let next = 0;
       let failed: unknown = null;
       const take = () => (failed === null && next < tasks.length ? next++ : -1);
       const mainLane = async () => {
+        if (runOptions.mainLaneAfter) await runOptions.mainLaneAfter.catch(() => {}); // (its failure is the caller's to report)
         for (let id = take(); id >= 0; id = take()) results[id] = await runTask(strip(tasks[id]), onBytes);
       };
       const workerLane = (w: Worker) =>
@@ -110,7 +118,7 @@ export function createPool(workers: number, options: { mainLane: boolean }): Poo
 
 /** Only the plain fields a worker needs (structured clone of the task). */
 function strip(t: Task): Task {
-  if (t.kind === 'summarise') return t;
+  if (t.kind === 'summarise' || t.kind === 'hash') return t;
   const job = { workspace: t.job.workspace, manifest: t.job.manifest, datasetIndex: t.job.datasetIndex, files: t.job.files };
   return t.kind === 'dataset' ? { kind: 'dataset', job } : { kind: 'pass', job, range: t.range };
 }
