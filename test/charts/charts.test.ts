@@ -6,6 +6,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { buildCharts, compileToVega, renderChartSvg, renderChartSvgs } from '../../src/charts/index.ts';
+import { STATIC_POINTS_MAX_ROWS, staticVariant } from '../../src/charts/render.ts';
 import { CATEGORY, PALETTE } from '../../src/charts/theme.ts';
 import type { ActivityChartData, AuditResult, ChartSpec, MeasureResult } from '../../src/types.ts';
 import { activityFixture, weightsFixture } from '../fixtures/audit-result.ts';
@@ -197,5 +198,34 @@ describe('CUSUM drift chart', () => {
     const text = JSON.stringify(chart.spec);
     expect(text).toContain('"h":0.05');
     expect(text).toContain('decision interval H = 0.0500');
+  });
+});
+
+describe('static SVG variant', () => {
+  // Common practice, no source: a static image cannot show tooltips, and point overlays denser
+  // than a few pixels apart only thicken the line. The live chart keeps the full spec.
+  const lineSpec = (rows: number) => ({
+    data: { values: Array.from({ length: rows }, (_, i) => ({ t: i, v: Math.sin(i / 7), tooltip: 'kept in data' })) },
+    mark: { type: 'line', point: { size: 14, filled: true } },
+    encoding: { x: { field: 't', type: 'quantitative' }, y: { field: 'v', type: 'quantitative' }, tooltip: [{ field: 'v', type: 'quantitative' }] },
+  });
+
+  it('drops tooltips always and point overlays above the row limit, leaving data and input untouched', () => {
+    const dense = lineSpec(STATIC_POINTS_MAX_ROWS + 1);
+    const before = JSON.stringify(dense);
+    const s = staticVariant(dense) as typeof dense;
+    expect(JSON.stringify(dense)).toBe(before);
+    expect(s.mark).toEqual({ type: 'line' });
+    expect('tooltip' in s.encoding).toBe(false);
+    expect(s.data).toEqual(dense.data);
+    const sparse = staticVariant(lineSpec(STATIC_POINTS_MAX_ROWS)) as ReturnType<typeof lineSpec>;
+    expect(sparse.mark).toEqual({ type: 'line', point: { size: 14, filled: true } });
+  });
+
+  it('the drawn SVG has point symbols only for the sparse series', async () => {
+    const chart = (rows: number): ChartSpec => ({ id: `t${rows}`, title: 't', description: 'd', spec: lineSpec(rows) } as unknown as ChartSpec);
+    const quiet = { logger: { warn: () => undefined } };
+    expect(await renderChartSvg(chart(20), quiet)).toContain('mark-symbol');
+    expect(await renderChartSvg(chart(500), quiet)).not.toContain('mark-symbol');
   });
 });
