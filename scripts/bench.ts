@@ -258,14 +258,22 @@ const stageMedians = Object.fromEntries(
   (['manifests', 'hash', 'compute', 'assemble', 'render'] as const).map((k) => [k, med(builds.map((b) => b.out.timings[k]))]),
 );
 const ref = refs[refs.length - 1].out;
+/**
+ * The ratio run by run (each build and its numpy run are back to back, so a slow spell of the
+ * machine affects both): median and range. The ratio of medians above is the headline figure.
+ */
+function paired(ratio: (b: (typeof builds)[number], p: (typeof refs)[number]) => number): string {
+  const rs = builds.map((b, i) => ratio(b, refs[i])).sort((x, y) => x - y);
+  return `run by run: median ${median(rs).toFixed(2)}, ${rs[0].toFixed(2)}–${rs[rs.length - 1].toFixed(2)}`;
+}
 console.log(`
 input              ${units} units × ${bins} bins float32 = ${mib(inputBytes)} (${inputBytes} bytes); ${repeat} run(s), medians
 reference          numpy ${ref.versions.numpy}, python3; block length ${blockLength}, 1000 percentile resamples
 lacuna compute     ${secs(compute)}   (stage 3: read, one-pass measures, 7 bootstrap intervals)
 lacuna build       ${secs(build)}   (child process wall time, cpu ${secs(buildCpu)}; node ${nodeFlags.join(' ') || '(no flags)'}; ran ${builds.every((b) => b.out.compiled) ? 'compiled dist/' : builds.some((b) => b.out.compiled) ? 'mixed (dist/ changed between runs)' : 'src/ through tsx (dist/ absent or stale: npm run compile)'}; start-up ${secs(startup)} then stages ${secs(stages)}: ${Object.entries(stageMedians).map(([k, v]) => `${k} ${secs(v)}`).join(', ')})
 numpy reference    ${secs(numpy)}   (process wall time, cpu ${secs(numpyCpu)}; in-script ${secs(numpyInScript)}: pass ${secs(med(refs.map((p) => p.out.seconds.pass * 1000)))}, bootstrap ${secs(med(refs.map((p) => p.out.seconds.bootstrap * 1000)))}; the rest is interpreter start and numpy import)
-compute / numpy    ${(compute / numpy).toFixed(2)}   (target ≤ 0.5; against numpy's in-script time: ${(compute / numpyInScript).toFixed(2)})
-build / numpy      ${(build / numpy).toFixed(2)}   (target ≤ 1; cpu time ratio ${(buildCpu / numpyCpu).toFixed(2)})
+compute / numpy    ${(compute / numpy).toFixed(2)}   (target ≤ 0.5; against numpy's in-script time: ${(compute / numpyInScript).toFixed(2)}; ${paired((b, p) => b.out.timings.compute / p.run.wallMs)})
+build / numpy      ${(build / numpy).toFixed(2)}   (target ≤ 1; cpu time ratio ${(buildCpu / numpyCpu).toFixed(2)}; ${paired((b, p) => b.run.wallMs / p.run.wallMs)})
 lacuna peak RSS    ${mib(lacunaRss)} = ${(lacunaRss / inputBytes).toFixed(2)} × input   (target < 0.5); up to the end of compute ${mib(computeRss)} = ${(computeRss / inputBytes).toFixed(2)} × input
 numpy peak RSS     ${mib(numpyRss)} = ${(numpyRss / inputBytes).toFixed(2)} × input   (memory-mapped pages that were touched count as resident)
 peak RSS from      ${existsSync('/usr/bin/time') ? '/usr/bin/time -v (maximum resident set size)' : 'polling /proc/<pid>/status VmHWM every 20 ms'}
