@@ -277,8 +277,6 @@ export interface ChartSpec {
   datasetId: string | null;
   spec: Record<string, unknown>;
   svg?: string;
-  /** `spec` compiled to Vega for the live chart, when the renderer compiled it already. */
-  vega?: Record<string, unknown>;
 }
 
 /** One version of an audit as listed on the audit's page. */

@@ -19,7 +19,7 @@ import { join } from 'node:path';
 import { findManifests, loadManifest } from '../manifest/index.ts';
 import type { ResolvedManifest } from '../manifest/types.ts';
 import { InputError, InputErrors } from '../errors.ts';
-import type { AuditResult, ChartSpec, DatasetResult, MeasureResult } from '../types.ts';
+import type { AuditResult, DatasetResult, FileProvenance, MeasureResult } from '../types.ts';
 import { TOOL_VERSION } from '../version.ts';
 import type { Progress } from '../cli/progress.ts';
 import { planHashes, readCachedDataset, recordHashes } from './cache.ts';
@@ -241,9 +241,9 @@ async function buildWithPool(
   } else {
     progress.info(`all ${mine.length} dataset results taken from the cache`);
   }
+  await pool.close(); // free the workers' memory before rendering
   lap('compute');
   if (shard) {
-    await pool.close();
     progress.info(`shard ${shard.index}/${shard.count}: ${todo.length} computed, ${cached} already cached; run a plain \`lacuna build\` to render`);
     return { audits: [], computed: todo.length, cached, split, rendered: [], timings };
   }
@@ -286,7 +286,7 @@ async function buildWithPool(
   lap('assemble');
 
   // 6. Render.
-  summary.rendered = await renderSite(o.out, workspace, manifests.map((m) => m.audit), progress, pool);
+  summary.rendered = await renderSite(o.out, workspace, manifests.map((m) => m.audit), progress);
   lap('render');
   return summary;
 }
@@ -296,27 +296,8 @@ function loadRenderModules() {
   return Promise.all([import('../report/site.ts'), import('../charts/index.ts')]);
 }
 
-/**
- * Versions of at least this many datasets have their charts drawn on every lane of the pool
- * (each lane loads vega once, about 0.4 s; the demo's 12-dataset survey has 62 charts, about
- * 2 s of drawing in one thread). Smaller ones are drawn in this thread, after the workers are
- * stopped, so their memory is freed before rendering.
- */
-const PARALLEL_CHART_DATASETS = 6;
-
-/**
- * Pages for every version missing from `out`, then the version lists and the site index.
- * `pool` (optional) is closed here, once its lanes are no longer needed for drawing charts.
- */
-export async function renderSite(out: string, workspace: string, audits: string[], progress: Progress, pool?: Pool): Promise<string[]> {
-  try {
-    return await renderSiteWith(out, workspace, audits, progress, pool);
-  } finally {
-    await pool?.close();
-  }
-}
-
-async function renderSiteWith(out: string, workspace: string, audits: string[], progress: Progress, pool: Pool | undefined): Promise<string[]> {
+/** Pages for every version missing from `out`, then the version lists and the site index. */
+export async function renderSite(out: string, workspace: string, audits: string[], progress: Progress): Promise<string[]> {
   mkdirSync(out, { recursive: true });
   const rendered: string[] = [];
   const pending: { audit: string; version: string }[] = [];
@@ -332,19 +313,13 @@ async function renderSiteWith(out: string, workspace: string, audits: string[], 
     return rendered;
   }
   const [{ renderVersion, renderAuditIndex, renderSiteIndex, copyAssets }, { buildCharts, renderChartSvgs }] = await loadRenderModules();
-  const lanes = pool && pool.lanes >= 2 && pending.some((p) => readRecord(workspace, p.audit, p.version).result.datasets.length >= PARALLEL_CHART_DATASETS) ? pool : null;
-  if (!lanes) await pool?.close(); // free the workers' memory before rendering
   const step = progress.step('rendering pages', pending.length);
   for (const p of pending) {
     const all = listVersions(workspace, p.audit);
     const idx = all.findIndex((v) => v.version === p.version);
     const rec = readRecord(workspace, p.audit, p.version);
     const prev = idx > 0 ? readRecord(workspace, p.audit, all[idx - 1].version).result : null;
-    const specs = buildCharts(rec.result);
-    const charts =
-      lanes && rec.result.datasets.length >= PARALLEL_CHART_DATASETS
-        ? ((await lanes.run(specs.map((chart) => ({ kind: 'chart' as const, chart })), () => {})) as ChartSpec[])
-        : await renderChartSvgs(specs);
+    const charts = await renderChartSvgs(buildCharts(rec.result));
     const target = join(out, p.audit, p.version);
     const tmp = join(out, p.audit, `.tmp-${p.version}-${process.pid}`);
     rmSync(tmp, { recursive: true, force: true });

@@ -1,7 +1,6 @@
 /**
  * Run dataset tasks on lanes: worker threads plus, optionally, this thread as one more lane.
- * A task is the SHA-256 of one input file (→ hex string), one chart drawn (→ ChartSpec with
- * svg and vega), a whole dataset (→ DatasetResult),
+ * A task is the SHA-256 of one input file (→ hex string), a whole dataset (→ DatasetResult),
  * one unit range of a split activity dataset (→ its pass state), or one measure's summary and
  * interval of a split dataset being finished (→ MeasureResult). Results come back in task order. Progress (bytes measured) is reported
  * as lanes send it. The first failure stops handing out tasks and is rethrown; an InputError
@@ -13,7 +12,7 @@
  */
 import { Worker } from 'node:worker_threads';
 import { InputError, InternalError } from '../errors.ts';
-import type { ChartSpec, DatasetResult, MeasureResult } from '../types.ts';
+import type { DatasetResult, MeasureResult } from '../types.ts';
 import { summarise, type SummariseJob } from './summarise.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { computeDataset, computePassPart, type DatasetJob } from './dataset.ts';
@@ -21,11 +20,10 @@ import { sha256File } from './cache.ts';
 
 export type Task =
   | { kind: 'hash'; path: string }
-  | { kind: 'chart'; chart: ChartSpec }
   | { kind: 'dataset'; job: DatasetJob }
   | { kind: 'pass'; job: DatasetJob; range: { unitStart: number; unitEnd: number } }
   | { kind: 'summarise'; job: SummariseJob };
-export type TaskResult = DatasetResult | ActivityPassState | MeasureResult | ChartSpec | string;
+export type TaskResult = DatasetResult | ActivityPassState | MeasureResult | string;
 
 type Reply =
   | { id: number; progress: number }
@@ -35,8 +33,6 @@ type Reply =
 /** Run one task in this thread (also the worker's body). */
 export async function runTask(task: Task, onBytes: (n: number) => void): Promise<TaskResult> {
   if (task.kind === 'hash') return sha256File(task.path, onBytes);
-  // (vega and Vega-Lite load on a lane's first chart only: compute-only workers never load them)
-  if (task.kind === 'chart') return (await import('../charts/render.ts')).renderChart(task.chart);
   if (task.kind === 'summarise') return summarise(task.job.plan, task.job.stat, task.job.summary);
   return task.kind === 'dataset' ? computeDataset(task.job, onBytes) : computePassPart(task.job, task.range, onBytes);
 }
@@ -122,7 +118,7 @@ export function createPool(workers: number, options: { mainLane: boolean }): Poo
 
 /** Only the plain fields a worker needs (structured clone of the task). */
 function strip(t: Task): Task {
-  if (t.kind === 'summarise' || t.kind === 'hash' || t.kind === 'chart') return t;
+  if (t.kind === 'summarise' || t.kind === 'hash') return t;
   const job = { workspace: t.job.workspace, manifest: t.job.manifest, datasetIndex: t.job.datasetIndex, files: t.job.files };
   return t.kind === 'dataset' ? { kind: 'dataset', job } : { kind: 'pass', job, range: t.range };
 }

@@ -65,10 +65,7 @@ export async function renderVersion(input: RenderVersionInput, targetDir: string
   const { result, comparison } = input;
   // 1. charts
   const anchorFor = uniqueSlugger();
-  // The live specs: compiled already where the charts were drawn (renderChart), else here.
-  const compiled = new Map(input.charts.map((c) => [c.spec, c.vega]));
-  const compile = (spec: Record<string, unknown>) => compiled.get(spec) ?? compileToVega(spec, { logger: { warn() {} } });
-  const prepared = chartModels(input.charts, { compile, slugger: anchorFor });
+  const prepared = chartModels(input.charts, { compile: (spec) => compileToVega(spec, { logger: { warn() {} } }), slugger: anchorFor });
   const reportCharts = prepared.charts.filter((c) => !isDriftChart(c));
   const driftCharts = prepared.charts.filter((c) => isDriftChart(c));
   const figures = prepared.charts.flatMap((c) => (c.file ? [{ file: c.file, title: c.title }] : []));
