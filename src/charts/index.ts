@@ -21,7 +21,7 @@ import { measuresSummaryChart } from './measures-summary.ts';
 import { populationSparsenessChart } from './population-sparseness.ts';
 import { thresholdCurveChart } from './threshold-curve.ts';
 
-export { compileToVega, renderChart, renderChartSvg, renderChartSvgs } from './render.ts';
+export { compileToVega, renderChartSvg, renderChartSvgs } from './render.ts';
 export type { ChartLogger } from './render.ts';
 export { driftCharts, driftSeriesChart } from './drift.ts';
 export { kurtosisChart } from './kurtosis.ts';

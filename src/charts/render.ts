@@ -107,18 +107,9 @@ export async function renderChartSvg(chart: ChartSpec, options: { logger?: Chart
   }
 }
 
-/**
- * A copy of `chart` with `svg` (the static variant drawn) and `vega` (the full spec compiled for
- * the live chart) filled in: all of a chart's Vega-Lite work, so that it can run on any lane.
- */
-export async function renderChart(chart: ChartSpec, options: { logger?: ChartLogger } = {}): Promise<ChartSpec> {
-  const svg = await renderChartSvg(chart, options);
-  return { ...chart, svg, vega: compileToVega(chart.spec, { logger: { warn() {} } }) };
-}
-
-/** Copies of `charts` with `svg` and `vega` filled in (inputs are not changed). */
+/** Copies of `charts` with `svg` filled in (inputs are not changed). */
 export async function renderChartSvgs(charts: ChartSpec[], options: { logger?: ChartLogger } = {}): Promise<ChartSpec[]> {
   const out: ChartSpec[] = [];
-  for (const c of charts) out.push(await renderChart(c, options));
+  for (const c of charts) out.push({ ...c, svg: await renderChartSvg(c, options) });
   return out;
 }
