@@ -13,8 +13,8 @@ import { performance } from 'node:perf_hooks';
 import { createActivityPass, finishActivityPass } from '../src/metrics/activity-pass.ts';
 import { rowMoments, newRowMoments, newRowScan, scanRow } from '../src/metrics/activity-pass-row.ts';
 import { accumulateBins, newBlockRows } from '../src/metrics/activity-pass-bins.ts';
-import { hashRow, scanHashFloat32 } from '../src/metrics/activity-pass-hash.ts';
-import { giniFromHistogram, newGiniScratch, rowGini, zeroedHistogram } from '../src/metrics/activity-pass-gini.ts';
+import { hashRow, scanHashHistFloat32 } from '../src/metrics/activity-pass-hash.ts';
+import { COUNTING_RANGE_LIMIT, giniFromHistogram, newGiniScratch, rowGini, zeroedHistogram } from '../src/metrics/activity-pass-gini.ts';
 
 const [units, bins, blockUnits, seed] = [2000, 50000, 50, 1].map((d, i) => Number(process.argv[2 + i] ?? d));
 
@@ -58,6 +58,7 @@ const gs = newGiniScratch(bins);
 const acc = { partialDefined: new Int32Array(bins), sum: new Float64Array(bins), sumSq: new Float64Array(bins), active: new Int32Array(bins) };
 const words = new Uint32Array(buf.buffer);
 const hash = new Uint32Array(2);
+const scanHist = new Int32Array(COUNTING_RANGE_LIMIT + 1);
 let whole = 0;
 let wholeCpu = 0;
 let genMs = 0;
@@ -82,7 +83,7 @@ for (let u0 = 0; u0 < units; u0 += blockUnits) {
     hashRow(words, off, bins, undefined, off, bins, hash);
     parts.hash += performance.now() - t;
     t = performance.now();
-    scanHashFloat32(buf, words, off, bins, scan, hash);
+    if (scanHashHistFloat32(buf, words, off, bins, scan, hash, scanHist) === 1) scanHist.fill(0, 0, scan.max + 1);
     parts['scan+hash'] += performance.now() - t;
     t = performance.now();
     const hist = zeroedHistogram(gs, scan.max, bins);

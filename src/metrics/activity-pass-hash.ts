@@ -57,52 +57,15 @@ export function hashRow(words: Uint32Array, wordOff: number, wordCount: number, 
 }
 
 /**
- * Pass 1 and the hash fused, for a Float32 row without a mask: Σx, min, max and the same hashes
- * as `hashRow` in one loop. Returns false (hash written, `out` untouched) when Σx is not finite,
- * i.e. the row holds NaN or ±Infinity: the caller then classifies it with `scanRow`.
- */
-export function scanHashFloat32(data: Float32Array, words: Uint32Array, off: number, bins: number, out: RowScan, hash: Uint32Array): boolean {
-  let a0 = FNV_BASIS, a1 = A1, b0 = B0, b1 = B1;
-  let sum = 0, min = Infinity, max = -Infinity;
-  let j = 0;
-  for (; j + 1 < bins; j += 2) {
-    const x0 = data[off + j], x1 = data[off + j + 1];
-    const w0 = words[off + j], w1 = words[off + j + 1];
-    sum += x0;
-    sum += x1;
-    if (x0 > max) max = x0;
-    if (x0 < min) min = x0;
-    if (x1 > max) max = x1;
-    if (x1 < min) min = x1;
-    a0 = Math.imul(a0 ^ w0, FNV_PRIME);
-    a1 = Math.imul(a1 ^ w1, FNV_PRIME);
-    b0 = Math.imul(b0 ^ w0, MIX_PRIME);
-    b1 = Math.imul(b1 ^ w1, MIX_PRIME);
-    b0 ^= b0 >>> 15;
-    b1 ^= b1 >>> 15;
-  }
-  if (j < bins) {
-    const x = data[off + j];
-    sum += x;
-    if (x > max) max = x;
-    if (x < min) min = x;
-    a0 = Math.imul(a0 ^ words[off + j], FNV_PRIME);
-    b0 = Math.imul(b0 ^ words[off + j], MIX_PRIME);
-  }
-  fold(a0, a1, b0, b1, bins, hash);
-  if (sum - sum !== 0) return false;
-  cleanScan(data, off, bins, sum, min, max, out);
-  return true;
-}
-
-/**
- * `scanHashFloat32` with the Gini histogram counted in the same loop, so that an integer row
- * (spike counts) is read twice in all instead of three times: here, and for the per-bin sums.
+ * Pass 1, the row hash and the Gini histogram fused, for a Float32 row without a mask: Σx, min,
+ * max, the same hashes as `hashRow`, and the counts of the values, in one loop, so that an
+ * integer row (spike counts) is read twice in all: here, and for the per-bin sums.
  * `hist` (length > COUNTING_RANGE_LIMIT) must be all zero on entry.
  * Returns 1 when every cell is an integer in [0, COUNTING_RANGE_LIMIT]: `hist[v]` then holds how
  * many cells equal v, and the caller zeroes `hist[0 ..= max]` after using it. Returns 0 for a
- * finite row that is not (`out` filled) and −1 for a row with NaN or ±Infinity (`out` untouched,
- * as `scanHashFloat32` returning false); in both cases `hist` is left all zero again.
+ * finite row that is not (`out` filled) and −1 for a row with NaN or ±Infinity (hash written,
+ * `out` untouched: the caller then classifies the row with `scanRow`); in both cases `hist` is
+ * left all zero again.
  */
 export function scanHashHistFloat32(data: Float32Array, words: Uint32Array, off: number, bins: number, out: RowScan, hash: Uint32Array, hist: Int32Array): -1 | 0 | 1 {
   let a0 = FNV_BASIS, a1 = A1, b0 = B0, b1 = B1;

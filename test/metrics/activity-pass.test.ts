@@ -6,10 +6,11 @@ import { describe, expect, it } from 'vitest';
 import { hasScipy, runPython } from '../helpers/python.ts';
 import { createActivityPass, finishActivityPass, type ActivityPassOptions, type ActivityPassResult } from '../../src/metrics/activity-pass.ts';
 import type { NegativesPolicy } from '../../src/manifest/types.ts';
-import { hashRow, scanHashFloat32 } from '../../src/metrics/activity-pass-hash.ts';
+import { hashRow, scanHashHistFloat32 } from '../../src/metrics/activity-pass-hash.ts';
 import { newRowScan } from '../../src/metrics/activity-pass-row.ts';
 import { blocksOf, close, mixedMatrix, mulberry32, poisson, runPass, toArrays } from './activity-pass-fixtures.ts';
 import { giniIndex } from '../../src/metrics/gini.ts';
+import { COUNTING_RANGE_LIMIT } from '../../src/metrics/activity-pass-gini.ts';
 import { excessKurtosis } from '../../src/metrics/kurtosis.ts';
 
 // Reference per unit and per bin computed by numpy/scipy from the same matrix: scipy.stats.skew
@@ -192,7 +193,9 @@ describe('row hash', () => {
       const words = new Uint32Array(data.buffer);
       const a = new Uint32Array(2), b = new Uint32Array(2);
       hashRow(words, bins, bins, undefined, bins, bins, a);
-      expect(scanHashFloat32(data, words, bins, bins, newRowScan(), b)).toBe(true);
+      const hist = new Int32Array(COUNTING_RANGE_LIMIT + 1);
+      expect(scanHashHistFloat32(data, words, bins, bins, newRowScan(), b, hist)).toBe(0); // finite; negatives stop the counting
+      expect(hist.every((h) => h === 0)).toBe(true);
       expect(Array.from(b)).toEqual(Array.from(a));
       // and a one-bit change changes both hashes
       const c = new Uint32Array(2);
@@ -200,6 +203,14 @@ describe('row hash', () => {
       hashRow(words, bins, bins, undefined, bins, bins, c);
       expect(c[0]).not.toBe(a[0]);
       expect(c[1]).not.toBe(a[1]);
+      // a row of counts (the counting path) hashes the same way too
+      const counts = Float32Array.from({ length: bins }, (_, i) => (i * 7919) % 13);
+      const cw = new Uint32Array(counts.buffer);
+      const d = new Uint32Array(2), e = new Uint32Array(2);
+      hashRow(cw, 0, bins, undefined, 0, bins, d);
+      expect(scanHashHistFloat32(counts, cw, 0, bins, newRowScan(), e, hist)).toBe(1);
+      expect(Array.from(e)).toEqual(Array.from(d));
+      hist.fill(0);
     }
   });
 
