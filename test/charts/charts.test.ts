@@ -220,6 +220,11 @@ describe('static SVG variant', () => {
     expect(s.data).toEqual(dense.data);
     const sparse = staticVariant(lineSpec(STATIC_POINTS_MAX_ROWS)) as ReturnType<typeof lineSpec>;
     expect(sparse.mark).toEqual({ type: 'line', point: { size: 14, filled: true } });
+    // With a gap, a value between two gaps is a line of one point: the points must stay.
+    const gappy = lineSpec(STATIC_POINTS_MAX_ROWS + 50);
+    (gappy.data.values[10] as { v: number | null }).v = null;
+    (gappy.data.values[12] as { v: number | null }).v = null;
+    expect((staticVariant(gappy) as typeof gappy).mark).toEqual({ type: 'line', point: { size: 14, filled: true } });
   });
 
   it('the drawn SVG has point symbols only for the sparse series', async () => {
@@ -227,5 +232,11 @@ describe('static SVG variant', () => {
     const quiet = { logger: { warn: () => undefined } };
     expect(await renderChartSvg(chart(20), quiet)).toContain('mark-symbol');
     expect(await renderChartSvg(chart(500), quiet)).not.toContain('mark-symbol');
+    // the value between two gaps is still drawn, as a point
+    const gappy = chart(500);
+    const rows = (gappy.spec as ReturnType<typeof lineSpec>).data.values as { v: number | null }[];
+    rows[10].v = null;
+    rows[12].v = null;
+    expect(await renderChartSvg(gappy, quiet)).toContain('mark-symbol');
   });
 });
