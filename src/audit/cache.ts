@@ -101,23 +101,6 @@ export function recordHashes(workspace: string, hashed: { file: FileToHash; sha2
   atomicWriteJson(store, merged);
 }
 
-/** Provenance of files, hashing (in this thread) only those `planHashes` says need it. */
-export async function provenanceOf(
-  workspace: string,
-  files: { abs: string; rel: string }[],
-  onBytes?: (n: number) => void,
-): Promise<FileProvenance[]> {
-  const { known, toHash } = planHashes(workspace, files);
-  const hashed: { file: FileToHash; sha256: string }[] = [];
-  for (const file of toHash) {
-    const sha256 = await sha256File(file.abs, onBytes);
-    hashed.push({ file, sha256 });
-    known.set(file.rel, { path: file.rel, sha256, bytes: file.size });
-  }
-  recordHashes(workspace, hashed);
-  return files.map((f) => known.get(f.rel)!);
-}
-
 export function datasetCacheKey(parts: { files: FileProvenance[]; entry: unknown; parameters: unknown; toolVersion: string }): string {
   return createHash('sha256').update(canonicalJson(parts)).digest('hex');
 }
