@@ -1,8 +1,9 @@
 /**
- * A real one-node Slurm cluster for the tests in test/scale/: the one CI started (its slurm.conf
- * named in LACUNA_TEST_SLURM_CONF), or one started here by scripts/slurm-local.sh (which installs
- * Debian's slurm-wlm and munge when missing and it may). Where neither works, `slurmStatus.ok` is
- * false and `reason` says why, so the tests skip with that message.
+ * A real one-node Slurm cluster for the tests in test/scale/: the one .ci/run started (its
+ * slurm.conf named in LACUNA_TEST_SLURM_CONF; LACUNA_TEST_SLURM_UNAVAILABLE says why it has none),
+ * or one started here by scripts/slurm-local.sh (which installs Debian's slurm-wlm and munge when
+ * missing and it may). Where neither works, `slurmStatus.ok` is false and `reason` says why, so
+ * the tests skip with that message.
  */
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync } from 'node:fs';
@@ -15,6 +16,7 @@ const LOCAL = join(REPO, 'scripts', 'slurm-local.sh');
 export type SlurmStatus = { ok: true; conf: string; started: string | null } | { ok: false; reason: string };
 
 function start(): SlurmStatus {
+  if (process.env.LACUNA_TEST_SLURM_UNAVAILABLE) return { ok: false, reason: process.env.LACUNA_TEST_SLURM_UNAVAILABLE };
   const given = process.env.LACUNA_TEST_SLURM_CONF;
   if (given) return { ok: true, conf: given, started: null };
   if (process.platform !== 'linux') return { ok: false, reason: `scripts/slurm-local.sh needs Linux, this is ${process.platform}` };
