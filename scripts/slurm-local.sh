@@ -14,7 +14,8 @@
 #
 # The configuration asks nothing of the kernel: no cgroups (ProctrackType=proctrack/linuxproc,
 # TaskPlugin=task/none), consumable cores and memory (select/cons_tres, CR_Core_Memory), the node
-# line as `slurmd -C` reports it (cores and RealMemory), no accounting database (so `sacct` has
+# line as `slurmd -C` reports it (cores and RealMemory), reached on the loopback address (so the
+# host name need not resolve), no accounting database (so `sacct` has
 # nothing to say here; `squeue` and `scontrol show job` do). The daemons run as the user who
 # starts them; running them as root (as CI does) lets jobs run as root.
 #
@@ -85,7 +86,7 @@ start() {
   cat >"$dir/slurm.conf" <<EOF
 # Written by scripts/slurm-local.sh: a one-node test cluster on $host.
 ClusterName=lacuna-local
-SlurmctldHost=$host
+SlurmctldHost=$host(127.0.0.1)
 SlurmctldPort=$ctld_port
 SlurmdPort=$slurmd_port
 SlurmUser=$(id -un)
@@ -108,7 +109,7 @@ MpiDefault=none
 MailProg=/bin/true
 ReturnToService=2
 MinJobAge=600
-$node_line State=UNKNOWN
+$node_line NodeAddr=127.0.0.1 State=UNKNOWN
 PartitionName=local Nodes=$host Default=YES MaxTime=INFINITE State=UP
 EOF
   export SLURM_CONF="$dir/slurm.conf"
