@@ -15,9 +15,9 @@
 # The configuration asks nothing of the kernel: no cgroups (ProctrackType=proctrack/linuxproc,
 # TaskPlugin=task/none), consumable cores and memory (select/cons_tres, CR_Core_Memory), the node
 # line as `slurmd -C` reports it (cores and RealMemory), reached on the loopback address (so the
-# host name need not resolve), no accounting database (so `sacct` has
-# nothing to say here; `squeue` and `scontrol show job` do). The daemons run as the user who
-# starts them; running them as root (as CI does) lets jobs run as root.
+# host name need not resolve), no accounting database (so `sacct` has nothing to say here;
+# `squeue` and `scontrol show job` do). The daemons run as the user who starts them (SlurmUser
+# and SlurmdUser), and so do the jobs: root, as in CI, or any user once the packages are installed.
 #
 # Exit codes: 0 done; 1 the packages could not be installed or a daemon did not start (the reason
 # and the end of the daemon's log are printed); 2 a usage error.
@@ -90,6 +90,7 @@ SlurmctldHost=$host(127.0.0.1)
 SlurmctldPort=$ctld_port
 SlurmdPort=$slurmd_port
 SlurmUser=$(id -un)
+SlurmdUser=$(id -un)
 AuthType=auth/munge
 CredType=cred/munge
 AuthInfo=socket=$dir/munge/munge.socket
