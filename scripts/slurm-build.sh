@@ -1,77 +1,137 @@
 #!/usr/bin/env bash
-# Build a large Lacuna workspace on a Slurm cluster.
+# Build a large Lacuna workspace on a Slurm cluster (run on a login node; it submits two jobs and
+# returns at once, printing their ids and how to follow them).
 #
-#   scripts/slurm-build.sh            (run on a login node; it submits two jobs and returns)
+#   scripts/slurm-build.sh --workspace DIR [--out DIR] [--shards N] [--cpus N] [--memory SIZE]
+#                          [--time T] [--render-time T] [--partition NAME] [--account NAME]
+#                          [--logs DIR] [--setup COMMANDS] [--lacuna FILE]
 #
-# 1. A job array of SHARDS tasks: task i computes share i+1 of SHARDS of the datasets
+#   --workspace DIR   holds audits/*.md and the data, on a file system every node sees   [$WORKSPACE]
+#   --out DIR         where the static site is written                     [$OUT or DIR/_site]
+#   --shards N        array tasks; more than there are datasets is harmless     [$SHARDS or 16]
+#   --cpus N          CPUs per shard, used as its worker threads        [$CPUS_PER_SHARD or 2]
+#   --memory SIZE     memory per job in sbatch's units (4G, 500M)          [$MEMORY or not asked]
+#   --time T          time limit per shard, e.g. 02:00:00        [$TIME_PER_SHARD or 02:00:00]
+#   --render-time T   time limit of the render job                  [$TIME_RENDER or 00:30:00]
+#   --partition NAME  partition                         [$PARTITION or the cluster's default]
+#   --account NAME    account to charge                       [$ACCOUNT or your default account]
+#   --logs DIR        Slurm output files                          [$LOGS or DIR/.lacuna-logs]
+#   --setup COMMANDS  run at the start of each job, e.g. 'module load nodejs/20'      [$SETUP]
+#   --lacuna FILE     the program     [$LACUNA_BIN or bin/lacuna.mjs of the checkout holding this]
+#
+# What it asks of the cluster: sbatch and Node.js 20.19 or later on the compute nodes (on PATH, or
+# put there by --setup); a file system shared by the login and compute nodes holding the checkout
+# and the workspace; per shard --cpus CPUs on one node for --time; for the render job one CPU for
+# --render-time; memory only when --memory is given, for each job (otherwise the cluster's default
+# per CPU applies). A shard streams its data: the benchmark's builds of 0.4 and 4 GiB peak at
+# 160-210 MiB (docs/benchmark.md); rendering the demo's site peaked at 350 MiB; 1G is ample.
+#
+# 1. A job array of N tasks: task i computes share i+1 of N of the datasets
 #    (`lacuna build --shard I/N`) into the workspace's cache, WORKSPACE/.lacuna-cache/. Each
-#    dataset goes to exactly one shard (dataset number modulo N), so tasks never compute the
-#    same dataset. Shards render nothing.
-# 2. One dependent job (afterok: it starts only when every array task succeeded) runs a plain
-#    `lacuna build`: every dataset comes from the cache, then it versions and renders the site.
+#    dataset goes to exactly one shard (dataset number modulo N), so tasks never compute the same
+#    dataset. Shards render nothing. Cache entries are written to a temporary name and renamed
+#    into place, so concurrent shards never see half an entry.
+# 2. One dependent job (afterok: it starts only when every array task ended with exit code 0) runs
+#    a plain `lacuna build`: every dataset comes from the cache, then it versions and renders the
+#    site. If a shard fails, Slurm cancels the render job (--kill-on-invalid-dep=yes) rather than
+#    leaving it pending: read the shard's log, fix the problem and run this script again; datasets
+#    already in the cache are not computed again.
 #
-# The workspace must be on a file system that every node sees (cache entries are written to a
-# temporary name and renamed into place, so concurrent shards never see half an entry). If a
-# shard fails, the render job never starts: fix the problem and run this script again; datasets
-# already in the cache are not computed again.
+# Both jobs are bash scripts (#!/bin/bash) handed to sbatch on its standard input; their settings
+# reach them through the environment (--export), so paths with spaces survive.
 set -euo pipefail
 
-# ---- settings: edit these ---------------------------------------------------------------------
-LACUNA_REPO="${LACUNA_REPO:-$HOME/lacuna}"          # checkout of Lacuna (holds bin/lacuna.mjs)
-WORKSPACE="${WORKSPACE:-$PWD/workspace}"            # holds audits/*.md and the data
-OUT="${OUT:-$WORKSPACE/_site}"                      # where the static site is written
-SHARDS="${SHARDS:-16}"                              # array tasks; more than datasets is harmless
-CPUS_PER_SHARD="${CPUS_PER_SHARD:-2}"               # worker threads per shard (passed as --workers)
-MEM_PER_SHARD="${MEM_PER_SHARD:-4G}"                # a shard streams its data: memory stays small
+here=$(cd "$(dirname "${BASH_SOURCE[0]}")" && pwd)
+WORKSPACE="${WORKSPACE:-}"
+OUT="${OUT:-}"
+SHARDS="${SHARDS:-16}"
+CPUS_PER_SHARD="${CPUS_PER_SHARD:-2}"
+MEMORY="${MEMORY:-}"
 TIME_PER_SHARD="${TIME_PER_SHARD:-02:00:00}"
 TIME_RENDER="${TIME_RENDER:-00:30:00}"
-PARTITION="${PARTITION:-}"                          # empty: the cluster's default partition
-ACCOUNT="${ACCOUNT:-}"                              # empty: your default account
-LOGS="${LOGS:-$WORKSPACE/.lacuna-logs}"             # Slurm output files
-# Commands run at the start of every job, e.g. to put Node.js 20 or later on PATH.
-SETUP="${SETUP:-}"                                  # e.g. SETUP='module load nodejs/20'
-# -----------------------------------------------------------------------------------------------
+PARTITION="${PARTITION:-}"
+ACCOUNT="${ACCOUNT:-}"
+LOGS="${LOGS:-}"
+SETUP="${SETUP:-}"
+LACUNA_BIN="${LACUNA_BIN:-$here/../bin/lacuna.mjs}"
 
-if ! [[ "$SHARDS" =~ ^[1-9][0-9]*$ ]]; then
-  echo "SHARDS must be a whole number >= 1, got '$SHARDS'" >&2
-  exit 2
-fi
-if [[ ! -d "$WORKSPACE/audits" ]]; then
-  echo "no audits/ folder in WORKSPACE=$WORKSPACE" >&2
-  exit 2
-fi
-mkdir -p "$LOGS"
+fail() { echo "slurm-build: $1" >&2; exit 2; }
+while [[ $# -gt 0 ]]; do
+  case $1 in
+    -h | --help) sed -n '2,/^# 1\. /p' "$0" | sed '$d' | sed 's/^# \{0,1\}//'; exit 0 ;;
+    --workspace | --out | --shards | --cpus | --memory | --time | --render-time | --partition | --account | --logs | --setup | --lacuna)
+      [[ $# -ge 2 ]] || fail "$1 needs a value (see --help)"
+      case $1 in
+        --workspace) WORKSPACE=$2 ;; --out) OUT=$2 ;; --shards) SHARDS=$2 ;; --cpus) CPUS_PER_SHARD=$2 ;;
+        --memory) MEMORY=$2 ;; --time) TIME_PER_SHARD=$2 ;; --render-time) TIME_RENDER=$2 ;;
+        --partition) PARTITION=$2 ;; --account) ACCOUNT=$2 ;; --logs) LOGS=$2 ;; --setup) SETUP=$2 ;;
+        --lacuna) LACUNA_BIN=$2 ;;
+      esac
+      shift 2 ;;
+    *) fail "unknown argument '$1' (see --help)" ;;
+  esac
+done
 
-common=(--parsable)
-[[ -n "$PARTITION" ]] && common+=(--partition="$PARTITION")
-[[ -n "$ACCOUNT" ]] && common+=(--account="$ACCOUNT")
+[[ -n $WORKSPACE ]] || fail "which workspace? give --workspace DIR (the folder holding audits/)"
+[[ -d "$WORKSPACE/audits" ]] || fail "no audits/ folder in the workspace '$WORKSPACE'"
+WORKSPACE=$(cd "$WORKSPACE" && pwd)
+OUT="${OUT:-$WORKSPACE/_site}"
+LOGS="${LOGS:-$WORKSPACE/.lacuna-logs}"
+[[ $SHARDS =~ ^[1-9][0-9]*$ ]] || fail "--shards must be a whole number >= 1, got '$SHARDS'"
+[[ $CPUS_PER_SHARD =~ ^[1-9][0-9]*$ ]] || fail "--cpus must be a whole number >= 1, got '$CPUS_PER_SHARD'"
+[[ -f $LACUNA_BIN ]] || fail "the program '$LACUNA_BIN' does not exist: give --lacuna PATH/bin/lacuna.mjs of a Lacuna checkout on the shared file system"
+LACUNA_BIN=$(cd "$(dirname "$LACUNA_BIN")" && pwd)/$(basename "$LACUNA_BIN")
+command -v sbatch >/dev/null || fail "sbatch is not on PATH: run this on a login node of the cluster"
+mkdir -p "$LOGS" "$(dirname "$OUT")"
+OUT=$(cd "$(dirname "$OUT")" && pwd)/$(basename "$OUT")
+LOGS=$(cd "$LOGS" && pwd)
 
-# The job scripts read these from their environment (--export), so paths with spaces survive.
-export LACUNA_BIN="$LACUNA_REPO/bin/lacuna.mjs" LACUNA_WS="$WORKSPACE" LACUNA_OUT="$OUT" \
-  LACUNA_SHARDS="$SHARDS" LACUNA_WORKERS="$CPUS_PER_SHARD" LACUNA_SETUP="$SETUP"
+common=(--parsable --chdir="$WORKSPACE")
+[[ -n $PARTITION ]] && common+=(--partition="$PARTITION")
+[[ -n $ACCOUNT ]] && common+=(--account="$ACCOUNT")
+[[ -n $MEMORY ]] && common+=(--mem="$MEMORY")
+
+export LACUNA_BIN LACUNA_WS="$WORKSPACE" LACUNA_OUT="$OUT" LACUNA_SHARDS="$SHARDS" \
+  LACUNA_WORKERS="$CPUS_PER_SHARD" LACUNA_SETUP="$SETUP"
 exports="--export=ALL,LACUNA_BIN,LACUNA_WS,LACUNA_OUT,LACUNA_SHARDS,LACUNA_WORKERS,LACUNA_SETUP"
 
-# 1. The array. Single quotes: $SLURM_ARRAY_TASK_ID and the LACUNA_* variables expand when the
-#    task runs, not here. Array task ids are 0-based, shards are 1-based. --workers is given
-#    explicitly because Node counts the node's cores, not the cores Slurm granted.
-# shellcheck disable=SC2016
+# 1. The array. Array task ids are 0-based, shards are 1-based. --workers is given explicitly
+#    because Node counts the node's cores, not the CPUs Slurm granted.
 array_id=$(sbatch "${common[@]}" "$exports" \
-  --job-name=lacuna-shard --output="$LOGS/%x-%A_%a.out" \
-  --array="0-$((SHARDS - 1))" \
-  --cpus-per-task="$CPUS_PER_SHARD" --mem="$MEM_PER_SHARD" --time="$TIME_PER_SHARD" \
-  --wrap='set -euo pipefail; eval "$LACUNA_SETUP"
-node "$LACUNA_BIN" build --workspace "$LACUNA_WS" --shard "$((SLURM_ARRAY_TASK_ID + 1))/$LACUNA_SHARDS" --workers "$LACUNA_WORKERS" --quiet')
+  --job-name=lacuna-shard --output="$LOGS/%x-%A_%a.out" --array="0-$((SHARDS - 1))" \
+  --cpus-per-task="$CPUS_PER_SHARD" --time="$TIME_PER_SHARD" <<'JOB'
+#!/bin/bash
+set -eo pipefail
+eval "$LACUNA_SETUP"
+set -u
+node "$LACUNA_BIN" build --workspace "$LACUNA_WS" --shard "$((SLURM_ARRAY_TASK_ID + 1))/$LACUNA_SHARDS" --workers "$LACUNA_WORKERS" --quiet
+JOB
+)
 array_id="${array_id%%;*}" # --parsable prints "jobid" or "jobid;cluster"
 
-# 2. The render, after every array task ended with exit code 0.
-# shellcheck disable=SC2016
+# 2. The render, after every array task ended with exit code 0; cancelled if one did not.
 render_id=$(sbatch "${common[@]}" "$exports" \
   --job-name=lacuna-render --output="$LOGS/%x-%j.out" \
-  --dependency="afterok:$array_id" \
-  --cpus-per-task=1 --mem=4G --time="$TIME_RENDER" \
-  --wrap='set -euo pipefail; eval "$LACUNA_SETUP"
-node "$LACUNA_BIN" build --workspace "$LACUNA_WS" --out "$LACUNA_OUT" --workers 1')
+  --dependency="afterok:$array_id" --kill-on-invalid-dep=yes \
+  --cpus-per-task=1 --time="$TIME_RENDER" <<'JOB'
+#!/bin/bash
+set -eo pipefail
+eval "$LACUNA_SETUP"
+set -u
+node "$LACUNA_BIN" build --workspace "$LACUNA_WS" --out "$LACUNA_OUT" --workers 1
+JOB
+) || {
+  echo "slurm-build: the render job was refused; cancel the shards with: scancel $array_id" >&2
+  exit 1
+}
 render_id="${render_id%%;*}"
 
-echo "submitted shards: job array $array_id ($SHARDS tasks); render: job $render_id (after all shards succeed)"
-echo "logs in $LOGS; the site will be in $OUT"
+memory_text=${MEMORY:-"the cluster's default"}
+cat <<EOF
+shards: job array $array_id ($SHARDS tasks, $CPUS_PER_SHARD CPUs and $TIME_PER_SHARD each, memory $memory_text)
+render: job $render_id (starts when every shard succeeded; cancelled if one fails)
+follow:   squeue -j $array_id,$render_id
+finished: sacct -j $array_id,$render_id --format=JobID,JobName,State,ExitCode,Elapsed,MaxRSS
+logs:     $LOGS
+site:     $OUT
+EOF

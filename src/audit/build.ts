@@ -185,7 +185,13 @@ async function buildWithPool(
   // renders a new version, so while worker threads hash, this thread loads the render modules
   // (Eleventy, vega: about 0.6 s) instead of waiting for them at the end, and joins the hashing
   // when done. Shards never render.
-  const allFiles = manifests.flatMap((m) => m.datasets.flatMap((d) => d.files.map((abs, i) => ({ abs, rel: d.relFiles[i] }))));
+  // A shard hashes and computes only its own datasets (dataset number modulo N), so N shards read
+  // each input once between them rather than each hashing the whole workspace.
+  let count = 0;
+  const chosen = manifests
+    .flatMap((m) => m.datasets.map((d, i) => ({ m, d, i, n: count++ })))
+    .filter(({ n }) => !shard || n % shard.count === shard.index - 1);
+  const allFiles = chosen.flatMap(({ d }) => d.files.map((abs, i) => ({ abs, rel: d.relFiles[i] })));
   const { known: provenance, toHash } = planHashes(workspace, allFiles);
   const preload = !shard && toHash.length > 0 && pool.lanes >= 2 ? loadRenderModules() : null;
   preload?.catch(() => {}); // a failure to load is reported when the render awaits the modules
@@ -199,14 +205,11 @@ async function buildWithPool(
   lap('hash');
 
   // 3. Compute.
-  const jobs: (DatasetJob & { key: string; bytes: number })[] = [];
-  for (const m of manifests) {
-    m.datasets.forEach((d, i) => {
-      const files = d.relFiles.map((r) => provenance.get(r)!);
-      jobs.push({ workspace, manifest: m, datasetIndex: i, files, key: keyFor(d, m, files), bytes: files.reduce((s, f) => s + f.bytes, 0) });
-    });
-  }
-  const mine = shard ? jobs.filter((_, i) => i % shard.count === shard.index - 1) : jobs;
+  const jobs: (DatasetJob & { key: string; bytes: number })[] = chosen.map(({ m, d, i }) => {
+    const files = d.relFiles.map((r) => provenance.get(r)!);
+    return { workspace, manifest: m, datasetIndex: i, files, key: keyFor(d, m, files), bytes: files.reduce((s, f) => s + f.bytes, 0) };
+  });
+  const mine = jobs; // a shard's share only (above)
   const results = new Map<string, DatasetResult>();
   let split = 0;
   const todo: typeof jobs = [];
