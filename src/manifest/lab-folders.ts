@@ -18,6 +18,7 @@ import { readdir, realpath, stat } from 'node:fs/promises';
 import path from 'node:path';
 import type { DataFormat } from './types.ts';
 import { isInside, resolveTarget, type PathContext } from './paths.ts';
+import { LABEL_TABLES } from '../readers/sorter-labels.ts';
 
 export interface LabFolderFiles {
   format: 'sorter-folder' | 'imaging-folder';
@@ -26,10 +27,9 @@ export interface LabFolderFiles {
 }
 
 const toPosix = (p: string) => p.split(path.sep).join('/');
-const byCodePoint = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
 
-/** The sorter files read, in this order when present; `cluster_*.tsv` label tables are added. */
-const SORTER_FILES = ['spike_times.npy', 'spike_clusters.npy', 'spike_templates.npy', 'params.py'];
+/** The sorter files read, in this order when present (other `cluster_*.tsv` tables hold metrics, not labels). */
+const SORTER_FILES = ['spike_times.npy', 'spike_clusters.npy', 'spike_templates.npy', 'params.py', ...LABEL_TABLES];
 /** The imaging files a plane may hold (which are read depends on `imaging.trace`). */
 const PLANE_FILES = ['F.npy', 'Fneu.npy', 'spks.npy', 'iscell.npy'];
 const PLANE_DIR = /^plane(\d{1,4})$/;
@@ -79,9 +79,7 @@ export async function resolveLabFolder(
     if (!looksLikeSorter(names)) {
       fail(`folder ${JSON.stringify(p)} has no spike_times.npy with spike_clusters.npy (or spike_templates.npy); allowed: a spike sorter's output folder`);
     }
-    const wanted = SORTER_FILES.filter((n) => names.has(n));
-    const tables = [...names].filter((n) => /^cluster_.+\.tsv$/.test(n)).sort(byCodePoint);
-    for (const n of [...wanted, ...tables]) await member(real, n, toPosix(path.join(p, n)));
+    for (const n of SORTER_FILES) if (names.has(n)) await member(real, n, toPosix(path.join(p, n)));
   } else {
     const dirs = looksLikePlane(names) ? [''] : planes;
     if (dirs.length === 0) fail(`folder ${JSON.stringify(p)} has neither F.npy with iscell.npy nor plane0/, plane1/, … subfolders holding them; allowed: an imaging pipeline's output folder`);

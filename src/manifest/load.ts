@@ -65,7 +65,7 @@ export async function loadManifest(file: string, workspaceRoot: string): Promise
       const r = lab ?? await resolveInsideWorkspace(rootAbs, manifestDir, d.path, pathCtx);
       const format = lab ? lab.format : resolveFormat(d.format, r.relFiles, { file: relFile, where: `${at}.format`, line: lineOf(`${at}.format`) ?? lineOf(`${at}.path`) });
       const wrongFor = (field: 'member' | 'series' | 'sorter' | 'imaging', needs: string) =>
-        problems.push(new InputError(`found ${field}: ${JSON.stringify(d[field])} for a ${format} dataset; allowed: ${field} only with format ${needs}`, {
+        problems.push(new InputError(`found ${field === 'sorter' || field === 'imaging' ? `${field} settings` : `${field}: ${JSON.stringify(d[field])}`} for a ${format} dataset; allowed: ${field} only with format ${needs}`, {
           file: relFile, where: `${at}.${field}`, line: lineOf(`${at}.${field}`),
         }));
       if (d.member !== null && format !== 'npz') wrongFor('member', 'npz');

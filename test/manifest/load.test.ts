@@ -171,6 +171,10 @@ describe('manifestReferenceMarkdown', () => {
     ['datasets[].path', 'required'], ['datasets[].files', 'every non-hidden data file'], ['datasets[].month', 'none'],
     ['datasets[].group', 'none'], ['datasets[].layout', 'units-by-bins'], ['datasets[].format', 'from the file extension'],
     ['datasets[].series', 'none'], ['datasets[].member', 'the only member'],
+    ['datasets[].sorter', 'none'], ['datasets[].sorter.labels', '[good]'], ['datasets[].sorter.sample_rate_hz', "params.py's sample_rate"],
+    ['datasets[].sorter.duration_s', 'to the last spike'], ['datasets[].imaging', 'none'], ['datasets[].imaging.frame_rate_hz', 'required'],
+    ['datasets[].imaging.trace', 'F-neuropil'], ['datasets[].imaging.neuropil_k', '0.7'], ['datasets[].imaging.cells', 'flag'],
+    ['datasets[].imaging.min_probability', '0.5'],
   ];
   it('has one row per field, with its default, in order', () => {
     const rows = manifestReferenceMarkdown().trim().split('\n').slice(2).map((r) => r.split(' | ').map((c) => c.replace(/^\| /, '')));
