@@ -5,6 +5,7 @@
  * the reference table is checked against the field list written out by hand here.
  */
 import { spawnSync } from 'node:child_process';
+import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { InputError, InputErrors } from '../../src/errors.ts';
@@ -176,6 +177,10 @@ describe('manifestReferenceMarkdown', () => {
     ['datasets[].imaging.trace', 'F-neuropil'], ['datasets[].imaging.neuropil_k', '0.7'], ['datasets[].imaging.cells', 'flag'],
     ['datasets[].imaging.min_probability', '0.5'],
   ];
+  it('is the table in README.md, so the reference cannot drift from the validator', () => {
+    const readme = readFileSync(new URL('../../README.md', import.meta.url), 'utf8');
+    expect(readme).toContain(manifestReferenceMarkdown().trimEnd());
+  });
   it('has one row per field, with its default, in order', () => {
     const rows = manifestReferenceMarkdown().trim().split('\n').slice(2).map((r) => r.split(' | ').map((c) => c.replace(/^\| /, '')));
     expect(rows.map((c) => [c[0].replace(/`/g, ''), c[2]])).toEqual(expected);
