@@ -19,6 +19,7 @@ import { join } from 'node:path';
 import { createRandom } from '../stats/random.ts';
 import { writeNpy } from '../readers/npy-write.ts';
 import { gamma, poisson, type Uniform } from './sample.ts';
+import { writeImagingPipelineDemo, writeSorterDemo } from './lab-folders.ts';
 
 export const DEMO_SEED = 20260101;
 const MONTHS = ['2026-01', '2026-02', '2026-03', '2026-04', '2026-05', '2026-06'];
@@ -141,6 +142,9 @@ export function makeDemo(dir: string, options: { seed?: number; overwriteManifes
           }
         }
         atomicWrite(put(`${base}-spikes.csv`), lines.join('\n') + '\n');
+      } else if (month === '2026-05' && rig === 'rig-b') {
+        // This session is kept as the spike sorter's output folder (curated labels, 30 kHz samples).
+        writeSorterDemo(put, `${base}-sort`, counts, units, bins, BIN_MS, seed + 3);
       } else if (month === '2026-01' && rig === 'rig-b') {
         // This rig's January export is time-major (bins × units).
         const t = new Float32Array(units * bins);
@@ -158,6 +162,9 @@ export function makeDemo(dir: string, options: { seed?: number; overwriteManifes
     const trace = deltaFOverF(rngImg, 40, 2000, 0.01, m >= 3 ? 0.45 : 1);
     writeNpy(put(`data/imaging/${month}.npy`), trace, [2000, 40]);
   });
+
+  // In June the imaging rig also keeps its segmentation pipeline's output folder (two planes).
+  writeImagingPipelineDemo(put, 'data/imaging/2026-06-pipeline', seed + 4);
 
   // 3. Weights: a fictional odour-classifier network, dense and after 50% and 90% magnitude pruning.
   const rngW = createRandom(seed + 2);
@@ -188,6 +195,7 @@ function kcDatasets(): string {
       const base = `../data/kc/${month}/${rig}`;
       if (month === '2026-06' && rig === 'rig-a') return `  - { id: ${id}, path: ${base}-spikes.csv, format: spikes, month: ${month}, group: ${rig} }`;
       if (month === '2026-01' && rig === 'rig-b') return `  - { id: ${id}, path: ${base}-time-major.npy, layout: bins-by-units, month: ${month}, group: ${rig} }`;
+      if (month === '2026-05' && rig === 'rig-b') return `  - { id: ${id}, path: ${base}-sort, month: ${month}, group: ${rig}, sorter: { labels: [good], duration_s: ${SECONDS} } }`;
       return `  - { id: ${id}, path: ${base}.npy, month: ${month}, group: ${rig} }`;
     }),
   ).join('\n');
@@ -211,6 +219,8 @@ hawkmoth *Sphinx imaginaria* on two rigs, ten 1-s odour presentations per 60-s s
 
 - **April:** the amplifier on rig B was replaced. Watch the drift page for rig B.
 - The June session of rig A was exported as a spike-time table.
+- The May session of rig B is read straight from the spike sorter's output folder: only the
+  clusters curated as good are units; multi-unit and noise clusters are counted and left out.
 `,
   'kc-imaging.md': `---
 audit: kc-imaging
@@ -223,10 +233,15 @@ events: { k: 3, baseline: trace }
 bootstrap: { resamples: 2000, level: 0.95, method: bca, seed: 7 }
 datasets:
 ${MONTHS.map((month, m) => `  - { id: img-${String(m + 1).padStart(2, '0')}, path: ../data/imaging/${month}.npy, layout: bins-by-units, month: ${month}, group: plane-1 }`).join('\n')}
+  - { id: img-06-pipeline, path: ../data/imaging/2026-06-pipeline, month: 2026-06, group: pipeline, imaging: { frame_rate_hz: 10, trace: spks, cells: flag } }
 ---
 Demo scenario (fictional). Synthetic ΔF/F traces of 40 regions of interest at 10 Hz with a
 planted event rate of 0.01 per frame. From April the indicator is dimmer: events shrink toward
 the noise, so fewer cross the event threshold.
+
+In June the lab also kept the segmentation pipeline's own output folder (two planes; its
+deconvolved activity of the ROIs the pipeline flagged as cells). Deconvolved activity is not ΔF/F,
+so it is its own group and is not pooled with the exported traces.
 `,
   'pruned-net.md': `---
 audit: pruned-net

@@ -17,6 +17,7 @@ import { parseManifestText } from './parse.ts';
 import { collectManifest } from './validate.ts';
 import { isInside, resolveInsideWorkspace } from './paths.ts';
 import { resolveFormat } from './format.ts';
+import { resolveLabFolder } from './lab-folders.ts';
 
 export const MAX_MANIFEST_BYTES = 1024 * 1024;
 
@@ -59,20 +60,35 @@ export async function loadManifest(file: string, workspaceRoot: string): Promise
     const sound = (field: string) => !problems.some((p) => p.where === `${at}.${field}`);
     if (!d.path || !sound('path') || !sound('files') || !sound('format')) continue;
     try {
-      const r = await resolveInsideWorkspace(rootAbs, manifestDir, d.path, { file: relFile, where: `${at}.path`, pattern: d.files, lineOf });
-      const format = resolveFormat(d.format, r.relFiles, { file: relFile, where: `${at}.format`, line: lineOf(`${at}.format`) ?? lineOf(`${at}.path`) });
-      const wrongFor = (field: 'member' | 'series', needs: string) =>
-        problems.push(new InputError(`found ${field}: ${JSON.stringify(d[field])} for a ${format} dataset; allowed: ${field} only with format ${needs}`, {
+      const pathCtx = { file: relFile, where: `${at}.path`, pattern: d.files, lineOf };
+      const lab = await resolveLabFolder(rootAbs, manifestDir, d.path, d.format, pathCtx);
+      const r = lab ?? await resolveInsideWorkspace(rootAbs, manifestDir, d.path, pathCtx);
+      const format = lab ? lab.format : resolveFormat(d.format, r.relFiles, { file: relFile, where: `${at}.format`, line: lineOf(`${at}.format`) ?? lineOf(`${at}.path`) });
+      const wrongFor = (field: 'member' | 'series' | 'sorter' | 'imaging', needs: string) =>
+        problems.push(new InputError(`found ${field === 'sorter' || field === 'imaging' ? `${field} settings` : `${field}: ${JSON.stringify(d[field])}`} for a ${format} dataset; allowed: ${field} only with format ${needs}`, {
           file: relFile, where: `${at}.${field}`, line: lineOf(`${at}.${field}`),
         }));
       if (d.member !== null && format !== 'npz') wrongFor('member', 'npz');
       if (d.series !== null && format !== 'nwb') wrongFor('series', 'nwb');
+      if (d.sorter !== null && format !== 'sorter-folder') wrongFor('sorter', 'sorter-folder');
+      if (d.imaging !== null && format !== 'imaging-folder') wrongFor('imaging', 'imaging-folder');
+      if (format === 'imaging-folder' && d.imaging === null) {
+        problems.push(new InputError('found an imaging-pipeline folder without imaging: { frame_rate_hz }; allowed: an imaging folder with its frame rate stated in the manifest', {
+          file: relFile, where: `${at}.imaging`, line: lineOf(`${at}.path`),
+          hint: "the pipeline keeps the rate in a pickled settings file, which Lacuna never loads: add imaging: { frame_rate_hz: 30 } with your rate",
+        }));
+      }
+      if (value.kind === 'weights' && (format === 'sorter-folder' || format === 'imaging-folder')) {
+        problems.push(new InputError(`found a ${format} with kind weights; allowed: npy, npz, csv, tsv, safetensors`, { file: relFile, where: `${at}.path`, line: lineOf(`${at}.path`) }));
+      }
       if (value.kind === 'weights' && (format === 'spikes' || format === 'nwb')) {
         problems.push(new InputError(`found ${format} files with kind weights; allowed: npy, npz, csv, tsv, safetensors`, { file: relFile, where: `${at}.path`, line: lineOf(`${at}.path`) }));
       }
       datasets.push({
         id: d.id, path: d.path, files: r.files, relFiles: r.relFiles, format,
         month: d.month, group: d.group, layout: d.layout, series: d.series, member: d.member,
+        sorter: format === 'sorter-folder' ? (d.sorter ?? { labels: ['good'], sample_rate_hz: null, duration_s: null }) : null,
+        imaging: format === 'imaging-folder' ? d.imaging : null,
       });
     } catch (err) {
       if (!(err instanceof InputError)) throw err;

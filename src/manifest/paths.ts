@@ -45,22 +45,30 @@ export function globToRegExp(pattern: string): RegExp {
 
 const toPosix = (p: string) => p.split(path.sep).join('/');
 
+/** A manifest path resolved and checked to stay inside the workspace (steps 1–3). */
+export interface ResolvedTarget {
+  /** Real path of the workspace root. */
+  rootReal: string;
+  /** Real path of the target. */
+  real: string;
+  /** Throws an InputError at the path's field (or `where`). */
+  fail: (message: string, where?: string, hint?: string, cause?: unknown) => never;
+}
+
 /**
- * Resolve `p` (as written in the manifest) to the dataset's files. Throws an `InputError`
- * naming the manifest, the dataset field and the path. Cost: one realpath per file.
+ * Steps 1–3: resolve `p` against the manifest's folder and refuse it when it leaves the workspace,
+ * as written or after following symlinks, or does not exist. Cost: two realpath calls.
  */
-export async function resolveInsideWorkspace(workspaceRoot: string, manifestDir: string, p: string, ctx: PathContext): Promise<ResolvedFiles> {
-  const patternWhere = ctx.where.replace(/\.path$/, '.files');
+export async function resolveTarget(workspaceRoot: string, manifestDir: string, p: string, ctx: PathContext): Promise<ResolvedTarget> {
   const fail = (message: string, where = ctx.where, hint?: string, cause?: unknown): never => {
     throw new InputError(message, { file: ctx.file, where, line: ctx.lineOf?.(where), hint, cause });
   };
-  const outside = 'data paths are relative to the manifest and must stay inside the workspace folder';
   const rootAbs = path.resolve(workspaceRoot);
   // 1–2. Lexical check.
-  if (p.includes('\0')) fail(`found a path with a NUL character; allowed: ${outside}`);
+  if (p.includes('\0')) fail(`found a path with a NUL character; allowed: ${OUTSIDE}`);
   const target = path.isAbsolute(p) ? path.normalize(p) : path.resolve(manifestDir, p);
   if (!isInside(rootAbs, target)) {
-    fail(`found ${JSON.stringify(p)}, which leads outside the workspace (${toPosix(rootAbs)}); allowed: ${outside}`);
+    fail(`found ${JSON.stringify(p)}, which leads outside the workspace (${toPosix(rootAbs)}); allowed: ${OUTSIDE}`);
   }
   // 3. After symlinks.
   const rootReal = await realpath(rootAbs);
@@ -71,8 +79,21 @@ export async function resolveInsideWorkspace(workspaceRoot: string, manifestDir:
     return fail(`found ${JSON.stringify(p)}, which does not exist (looked for ${toPosix(path.relative(rootAbs, target)) || '.'})`, ctx.where, undefined, err);
   }
   if (!isInside(rootReal, real)) {
-    fail(`found ${JSON.stringify(p)}, a symbolic link leading outside the workspace (to ${real}); allowed: ${outside}`);
+    fail(`found ${JSON.stringify(p)}, a symbolic link leading outside the workspace (to ${real}); allowed: ${OUTSIDE}`);
   }
+  return { rootReal, real, fail };
+}
+
+const OUTSIDE = 'data paths are relative to the manifest and must stay inside the workspace folder';
+
+/**
+ * Resolve `p` (as written in the manifest) to the dataset's files. Throws an `InputError`
+ * naming the manifest, the dataset field and the path. Cost: one realpath per file.
+ */
+export async function resolveInsideWorkspace(workspaceRoot: string, manifestDir: string, p: string, ctx: PathContext): Promise<ResolvedFiles> {
+  const patternWhere = ctx.where.replace(/\.path$/, '.files');
+  const { rootReal, real, fail } = await resolveTarget(workspaceRoot, manifestDir, p, ctx);
+  const outside = OUTSIDE;
   const st = await stat(real);
   const rel = (f: string) => toPosix(path.relative(rootReal, f));
   // 4. A file, or a folder's matching files.

@@ -6,12 +6,16 @@
  * add a row here (and to `ResolvedManifest` in `types.ts`). Enumerations are `as const`
  * lists so the union type, the check and the "allowed: …" text come from one list.
  */
-import type { Adjustment, AuditKind, Axis, DataFormat, DriftChart, Layout, NegativesPolicy } from './types.ts';
+import type { Adjustment, AuditKind, Axis, CellChoice, DataFormat, DriftChart, ImagingTrace, Layout, NegativesPolicy } from './types.ts';
 
 export const AUDIT_KINDS = ['activity', 'weights'] as const satisfies readonly AuditKind[];
 export const AXES = ['time', 'stimuli'] as const satisfies readonly Axis[];
 export const LAYOUTS = ['units-by-bins', 'bins-by-units'] as const satisfies readonly Layout[];
-export const DATA_FORMATS = ['npy', 'npz', 'csv', 'tsv', 'spikes', 'nwb', 'safetensors'] as const satisfies readonly DataFormat[];
+export const DATA_FORMATS = ['npy', 'npz', 'csv', 'tsv', 'spikes', 'nwb', 'safetensors', 'sorter-folder', 'imaging-folder'] as const satisfies readonly DataFormat[];
+/** Formats whose dataset is one folder of several files with fixed names, read together. */
+export const FOLDER_FORMATS = ['sorter-folder', 'imaging-folder'] as const satisfies readonly DataFormat[];
+export const IMAGING_TRACES = ['F', 'F-neuropil', 'spks'] as const satisfies readonly ImagingTrace[];
+export const CELL_CHOICES = ['flag', 'probability', 'all'] as const satisfies readonly CellChoice[];
 export const NEGATIVES_POLICIES = ['keep', 'rectify', 'shift', 'refuse'] as const satisfies readonly NegativesPolicy[];
 export const DRIFT_CHARTS = ['ewma', 'cusum'] as const satisfies readonly DriftChart[];
 export const ADJUSTMENTS = ['holm', 'bh', 'none'] as const satisfies readonly Adjustment[];
@@ -23,7 +27,8 @@ const _covered: [
   Covers<typeof AUDIT_KINDS, AuditKind>, Covers<typeof AXES, Axis>, Covers<typeof LAYOUTS, Layout>,
   Covers<typeof DATA_FORMATS, DataFormat>, Covers<typeof NEGATIVES_POLICIES, NegativesPolicy>,
   Covers<typeof DRIFT_CHARTS, DriftChart>, Covers<typeof ADJUSTMENTS, Adjustment>,
-] = [true, true, true, true, true, true, true];
+  Covers<typeof IMAGING_TRACES, ImagingTrace>, Covers<typeof CELL_CHOICES, CellChoice>,
+] = [true, true, true, true, true, true, true, true, true];
 void _covered;
 
 /** A rule for a text field: the test and how the allowed values are said to people. */
@@ -80,10 +85,12 @@ export type ChoiceField = Base & {
   fields?: readonly FieldSpec[];
   default: string;
 };
+/** A list of one-line words, each passing `rule`. */
+export type WordsField = Base & { type: 'words'; rule: keyof typeof TEXT_RULES; minItems: number; maxItems: number; default: readonly string[] };
 /** A nested mapping. `nullable`: absent means null (off); otherwise absent means all defaults. */
 export type MappingField = Base & { type: 'mapping'; fields: readonly FieldSpec[]; nullable: boolean };
 export type ListField = Base & { type: 'list'; item: readonly FieldSpec[]; minItems: number; maxItems: number };
-export type FieldSpec = TextField | NumberField | EnumField | ChoiceField | MappingField | ListField;
+export type FieldSpec = TextField | NumberField | EnumField | ChoiceField | WordsField | MappingField | ListField;
 
 const BOOTSTRAP_FIELDS: readonly FieldSpec[] = [
   { name: 'resamples', type: 'integer', min: 100, max: 1_000_000, default: 2000, description: 'Number of bootstrap resamples per interval.' },
@@ -118,6 +125,23 @@ const DRIFT_FIELDS: readonly FieldSpec[] = [
   { name: 'adjust', type: 'enum', values: ADJUSTMENTS, default: 'holm', description: 'Multiple-testing adjustment of trend p-values: Holm (1979), Benjamini–Hochberg (1995) or none.' },
 ];
 
+const SORTER_FIELDS: readonly FieldSpec[] = [
+  {
+    name: 'labels', type: 'words', rule: 'label', minItems: 1, maxItems: 64, default: ['good'],
+    description: "Curated labels whose clusters become units (as in the folder's label table, case-insensitive).",
+  },
+  { name: 'sample_rate_hz', type: 'number', min: 0, max: 1e7, minExclusive: true, default: undefined, defaultText: "params.py's sample_rate", description: 'Samples per second of spike_times.npy.' },
+  { name: 'duration_s', type: 'number', min: 0, max: 1e7, minExclusive: true, default: undefined, defaultText: 'to the last spike', description: 'Recording length in seconds.' },
+];
+
+const IMAGING_FIELDS: readonly FieldSpec[] = [
+  { name: 'frame_rate_hz', type: 'number', min: 0, max: 1e6, minExclusive: true, required: true, description: "Frames per second (the pipeline's settings file is a pickle and is never read)." },
+  { name: 'trace', type: 'enum', values: IMAGING_TRACES, default: 'F-neuropil', description: 'F (fluorescence), F-neuropil (F − k·Fneu) or spks (deconvolved activity).' },
+  { name: 'neuropil_k', type: 'number', min: 0, max: 10, default: 0.7, description: 'k of F − k·Fneu (0.7 is common practice).' },
+  { name: 'cells', type: 'enum', values: CELL_CHOICES, default: 'flag', description: "Which ROIs are units: iscell.npy's flag, its probability ≥ min_probability, or all." },
+  { name: 'min_probability', type: 'number', min: 0, max: 1, default: 0.5, description: 'With cells: probability, the lowest is-cell probability taken.' },
+];
+
 const DATASET_FIELDS: readonly FieldSpec[] = [
   { name: 'id', type: 'text', rule: 'slug', required: true, description: 'Dataset name, unique within the manifest.' },
   { name: 'path', type: 'text', rule: 'path', required: true, description: 'A file or a folder, relative to the manifest file; must stay inside the workspace.' },
@@ -134,6 +158,8 @@ const DATASET_FIELDS: readonly FieldSpec[] = [
   },
   { name: 'series', type: 'text', rule: 'name', default: null, description: 'NWB: path of the table or series to read, when the file holds several.' },
   { name: 'member', type: 'text', rule: 'name', default: null, defaultText: 'the only member', description: 'NPZ: member to read.' },
+  { name: 'sorter', type: 'mapping', nullable: true, fields: SORTER_FIELDS, description: 'Spike-sorter output folder (format sorter-folder): which units and how long.' },
+  { name: 'imaging', type: 'mapping', nullable: true, fields: IMAGING_FIELDS, description: 'Imaging-pipeline output folder (format imaging-folder): frame rate, trace and cells.' },
 ];
 
 /** Every manifest field, in the order of the reference table. */
@@ -172,6 +198,8 @@ export function allowedText(f: FieldSpec): string {
       if (f.fields) alts.push(`{ ${f.fields.map((c) => c.name).join(', ')} }`);
       return alts.join(' or ');
     }
+    case 'words':
+      return `a list of ${f.minItems}–${f.maxItems} words, each ${TEXT_RULES[f.rule].allowed}`;
     case 'mapping':
       return `a mapping with fields ${f.fields.map((c) => c.name).join(', ')}${f.nullable ? ', or nothing' : ''}`;
     case 'list':
@@ -196,6 +224,7 @@ export function defaultText(f: FieldSpec): string {
   if (f.defaultText) return f.defaultText;
   if (f.required) return 'required';
   if (f.type === 'mapping' || f.type === 'list') return f.type === 'mapping' && f.nullable ? 'none' : 'see below';
+  if (f.type === 'words') return `[${f.default.join(', ')}]`;
   const d = f.default;
   return d === null || d === undefined ? 'none' : String(d);
 }

@@ -7,7 +7,33 @@
 export type AuditKind = 'activity' | 'weights';
 export type Axis = 'time' | 'stimuli';
 export type Layout = 'units-by-bins' | 'bins-by-units';
-export type DataFormat = 'npy' | 'npz' | 'csv' | 'tsv' | 'spikes' | 'nwb' | 'safetensors';
+export type DataFormat = 'npy' | 'npz' | 'csv' | 'tsv' | 'spikes' | 'nwb' | 'safetensors' | 'sorter-folder' | 'imaging-folder';
+/** Which trace of an imaging-pipeline folder is read: fluorescence, fluorescence minus k × neuropil, or deconvolved activity. */
+export type ImagingTrace = 'F' | 'F-neuropil' | 'spks';
+/** Which ROIs of an imaging-pipeline folder are units: the pipeline's is-cell flag, its probability ≥ a threshold, or every ROI. */
+export type CellChoice = 'flag' | 'probability' | 'all';
+
+/** A spike-sorter output folder (`format: sorter-folder`); see src/readers/sorter-folder.ts. */
+export interface SorterSettings {
+  /** Curated labels whose clusters become units (compared case-insensitively). */
+  labels: string[];
+  /** Samples per second; null: taken from the folder's params.py. */
+  sample_rate_hz: number | null;
+  /** Recording length in seconds; null: up to the bin of the last spike (a notice says so). */
+  duration_s: number | null;
+}
+
+/** An imaging-pipeline output folder (`format: imaging-folder`); see src/readers/imaging-folder.ts. */
+export interface ImagingSettings {
+  /** Frames per second of every plane (the pipeline keeps it in a pickle, which is never loaded). */
+  frame_rate_hz: number;
+  trace: ImagingTrace;
+  /** k of F − k·Fneu. */
+  neuropil_k: number;
+  cells: CellChoice;
+  /** With cells: probability, ROIs whose is-cell probability is at least this are units. */
+  min_probability: number;
+}
 /** What to do with values below zero, for the measures that assume non-negative responses. */
 export type NegativesPolicy = 'keep' | 'rectify' | 'shift' | 'refuse';
 export type DriftChart = 'ewma' | 'cusum';
@@ -58,6 +84,10 @@ export interface ResolvedDataset {
   series: string | null;
   /** NPZ: member name to read (activity); null = the only member. */
   member: string | null;
+  /** Settings of a spike-sorter output folder; null for other formats. */
+  sorter: SorterSettings | null;
+  /** Settings of an imaging-pipeline output folder; null for other formats. */
+  imaging: ImagingSettings | null;
 }
 
 export interface ResolvedManifest {

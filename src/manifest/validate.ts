@@ -100,10 +100,12 @@ function walkField(f: FieldSpec, v: unknown, path: string, report: Report): unkn
     }
     if (f.type === 'mapping') return f.nullable ? null : walkMapping(f.fields, {}, `${path}.`, () => {});
     if (f.type === 'list') return [];
+    if (f.type === 'words') return [...f.default];
     return f.default ?? null;
   }
   const bad = (hint?: string) => {
     report(path, `found ${describeFound(v)}; allowed: ${allowedText(f)}`, hint);
+    if (f.type === 'words') return [...f.default];
     return f.type === 'mapping' ? walkMapping(f.fields, {}, `${path}.`, () => {}) : f.type === 'list' ? [] : (f.default ?? null);
   };
   switch (f.type) {
@@ -121,6 +123,10 @@ function walkField(f: FieldSpec, v: unknown, path: string, report: Report): unkn
       if (f.integerMin !== undefined && typeof v === 'number' && Number.isInteger(v) && v >= f.integerMin) return v;
       if (f.fields && isMapping(v)) return walkMapping(f.fields, v, `${path}.`, report);
       return bad(suggestValue(v, f.words));
+    case 'words':
+      if (typeof v === 'string' && TEXT_RULES[f.rule].test(v)) return [v]; // `labels: good` means [good]
+      if (!Array.isArray(v) || v.length < f.minItems || v.length > f.maxItems || !v.every((w) => typeof w === 'string' && TEXT_RULES[f.rule].test(w))) return bad();
+      return v;
     case 'mapping':
       return walkMapping(f.fields, v, `${path}.`, report);
     case 'list':

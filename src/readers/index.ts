@@ -18,7 +18,7 @@
 import { stat } from 'node:fs/promises';
 import type { FileProvenance, WeightsSource } from '../types.ts';
 import type { AuditKind, ResolvedDataset } from '../manifest/types.ts';
-import { InputError } from '../errors.ts';
+import { InputError, InternalError } from '../errors.ts';
 import type { ActivityFile, FileInspection } from './types.ts';
 import { inputError } from './byte-source.ts';
 import { hashFile } from './hash.ts';
@@ -33,6 +33,8 @@ import { delimiterFor } from './table-text.ts';
 import { planWeights, readTensors } from './weights.ts';
 import { joinActivity, type RangedActivitySource } from './join.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
+import { openSorterFolder, inspectSorterFolder } from './sorter-folder.ts';
+import { openImagingFolder } from './imaging-folder.ts';
 
 export { hashFile };
 export type { HashedFile, RangedActivitySource };
@@ -42,6 +44,19 @@ export type { ReadableActivityFile } from './activity-file.ts';
 /** A reader that holds the whole file in memory (CSV, spike tables): any unit range is contiguous. */
 function inMemory(f: ReadableActivityFile): ReadableActivityFile {
   return Object.assign(f, { contiguous: true });
+}
+
+/** A folder dataset (sorter or imaging output) as one activity file over all its member files. */
+async function openLabFolder(ds: ResolvedDataset, ctx: { binMs: number }): Promise<ReadableActivityFile> {
+  if (ds.format === 'sorter-folder') return openSorterFolder(ds.files, ds.relFiles, ds.sorter!, ctx.binMs);
+  return openImagingFolder(ds.files, ds.relFiles, ds.imaging!, ctx.binMs);
+}
+
+/** The folder of a folder dataset, workspace-relative (for the joiner's segment and messages). */
+function folderRel(ds: ResolvedDataset): string {
+  const r = ds.relFiles[0];
+  const planeUp = ds.format === 'imaging-folder' && /\/plane\d+\/[^/]+$/.test(r) ? 2 : 1;
+  return r.split('/').slice(0, -planeUp).join('/') || '.';
 }
 
 /** One file of an activity dataset, opened for `readUnits` (headers read; data not yet). */
@@ -58,6 +73,9 @@ export async function openActivityFile(path: string, relPath: string, ds: Resolv
     }
     case 'safetensors':
       throw inputError(relPath, 'format', 'safetensors files hold weights, not activity', 'use kind: weights, or store activity as npy, npz, csv, tsv, spikes or nwb');
+    case 'sorter-folder':
+    case 'imaging-folder':
+      throw new InternalError(`${ds.format} is opened as a whole folder (openLabFolder), not file by file`);
     default:
       throw inputError(relPath, 'format', `unknown format '${String(ds.format)}'`);
   }
@@ -113,6 +131,11 @@ export async function openDataset(ds: ResolvedDataset, ctx: OpenContext): Promis
       tensors: () => guardedTensors(plan, guard),
     };
     return source;
+  }
+  if (ds.format === 'sorter-folder' || ds.format === 'imaging-folder') {
+    const folder = await openLabFolder(ds, ctx);
+    const check = guard ? () => guard.check() : undefined;
+    return joinActivity([folder], [folderRel(ds)], await provenance(), ctx.maxBlockBytes, () => openLabFolder(ds, ctx), check);
   }
   const files: ActivityFile[] = [];
   try {
@@ -189,6 +212,20 @@ async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind:
   }
 }
 
+/** A folder dataset's headers (`lacuna check`): everything the build checks before reading data. */
+async function inspectLabFolder(ds: ResolvedDataset, ctx: { kind: AuditKind; binMs: number }): Promise<FileInspection> {
+  let bytes = 0;
+  for (const f of ds.files) bytes += (await stat(f)).size;
+  const path = folderRel(ds);
+  if (ds.format === 'sorter-folder') {
+    const s = await inspectSorterFolder(ds.files, ds.relFiles, ds.sorter!, ctx.binMs);
+    return { path, format: ds.format, shape: [s.spikes], dtype: s.dtype, bytes };
+  }
+  const f = await openImagingFolder(ds.files, ds.relFiles, ds.imaging!, ctx.binMs, true);
+  await f.close();
+  return { path, format: ds.format, shape: [f.units, f.bins], dtype: null, bytes };
+}
+
 /** Headers only, no data pass (for `lacuna check`); every problem is collected, none thrown. */
 export async function inspectDataset(
   ds: ResolvedDataset, ctx: { kind: AuditKind; binMs: number },
@@ -196,6 +233,15 @@ export async function inspectDataset(
   const files: FileInspection[] = [];
   const problems: InputError[] = [];
   if (!ds.files.length) return { files, problems: [noFiles(ds)] };
+  if (ds.format === 'sorter-folder' || ds.format === 'imaging-folder') {
+    try {
+      files.push(await inspectLabFolder(ds, ctx));
+    } catch (err) {
+      if (!(err instanceof InputError)) throw err;
+      problems.push(err);
+    }
+    return { files, problems };
+  }
   let firstUnits: { rel: string; units: number } | null = null;
   for (let i = 0; i < ds.files.length; i++) {
     const rel = ds.relFiles[i];

@@ -6,7 +6,7 @@
  */
 import { renameSync, openSync, writeSync, closeSync } from 'node:fs';
 
-type Writable = Float64Array | Float32Array | Int32Array | Int16Array | Int8Array | Uint8Array | Uint16Array | Uint32Array;
+type Writable = Float64Array | Float32Array | Int32Array | Int16Array | Int8Array | Uint8Array | Uint16Array | Uint32Array | BigUint64Array;
 
 function descrOf(a: Writable): string {
   if (a instanceof Float64Array) return '<f8';
@@ -16,6 +16,7 @@ function descrOf(a: Writable): string {
   if (a instanceof Int8Array) return '|i1';
   if (a instanceof Uint8Array) return '|u1';
   if (a instanceof Uint16Array) return '<u2';
+  if (a instanceof BigUint64Array) return '<u8';
   return '<u4';
 }
 

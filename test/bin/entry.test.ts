@@ -86,7 +86,7 @@ describe('compiled and source runs', () => {
       const right = comparable(join(copy, 'records', audit, 'v001.json'));
       expect(right, audit).toBe(left);
     }
-  });
+  }, 240_000); // two whole demo builds, one through tsx: minutes on a loaded two-core machine
 });
 
 describe('V8 flags', () => {

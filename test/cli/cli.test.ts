@@ -52,7 +52,7 @@ describe('lacuna command', () => {
   it('init writes a workspace that check accepts; the seeded demo data are reproducible', () => {
     const r = run('check', '--workspace', ws);
     expect(r.status, r.stderr).toBe(0);
-    expect(r.stderr).toMatch(/3 manifests and 21 datasets: no problems/);
+    expect(r.stderr).toMatch(/3 manifests and 22 datasets: no problems/);
     const again = join(mkdtempSync(join(tmpdir(), 'lacuna-cli-')), 'lab');
     expect(run('init', again, '--quiet').status).toBe(0);
     for (const f of ['data/kc/2026-04/rig-b.npy', 'data/imaging/2026-02.npy', 'data/weights/pruned-90.safetensors', 'audits/kc-survey.md']) {

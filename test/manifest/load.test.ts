@@ -5,6 +5,7 @@
  * the reference table is checked against the field list written out by hand here.
  */
 import { spawnSync } from 'node:child_process';
+import { readFileSync } from 'node:fs';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { InputError, InputErrors } from '../../src/errors.ts';
@@ -46,13 +47,13 @@ describe('loadManifest', () => {
           id: 'm01-rig-a', path: '../data/kc/2026-01/',
           files: [path.join(ws.root, 'data/kc/2026-01/s1.npy'), path.join(ws.root, 'data/kc/2026-01/s2.npy')],
           relFiles: ['data/kc/2026-01/s1.npy', 'data/kc/2026-01/s2.npy'],
-          format: 'npy', month: '2026-01', group: 'rig-a', layout: 'units-by-bins', series: null, member: null,
+          format: 'npy', month: '2026-01', group: 'rig-a', layout: 'units-by-bins', series: null, member: null, sorter: null, imaging: null,
         },
         {
           id: 'm02-rig-b', path: '../data/kc/2026-02/session-1.npy',
           files: [path.join(ws.root, 'data/kc/2026-02/session-1.npy')],
           relFiles: ['data/kc/2026-02/session-1.npy'],
-          format: 'npy', month: '2026-02', group: 'rig-b', layout: 'units-by-bins', series: null, member: null,
+          format: 'npy', month: '2026-02', group: 'rig-b', layout: 'units-by-bins', series: null, member: null, sorter: null, imaging: null,
         },
       ],
       notes: 'Free markdown notes by the lab.\n',
@@ -171,7 +172,15 @@ describe('manifestReferenceMarkdown', () => {
     ['datasets[].path', 'required'], ['datasets[].files', 'every non-hidden data file'], ['datasets[].month', 'none'],
     ['datasets[].group', 'none'], ['datasets[].layout', 'units-by-bins'], ['datasets[].format', 'from the file extension'],
     ['datasets[].series', 'none'], ['datasets[].member', 'the only member'],
+    ['datasets[].sorter', 'none'], ['datasets[].sorter.labels', '[good]'], ['datasets[].sorter.sample_rate_hz', "params.py's sample_rate"],
+    ['datasets[].sorter.duration_s', 'to the last spike'], ['datasets[].imaging', 'none'], ['datasets[].imaging.frame_rate_hz', 'required'],
+    ['datasets[].imaging.trace', 'F-neuropil'], ['datasets[].imaging.neuropil_k', '0.7'], ['datasets[].imaging.cells', 'flag'],
+    ['datasets[].imaging.min_probability', '0.5'],
   ];
+  it('is the table in README.md, so the reference cannot drift from the validator', () => {
+    const readme = readFileSync(new URL('../../README.md', import.meta.url), 'utf8');
+    expect(readme).toContain(manifestReferenceMarkdown().trimEnd());
+  });
   it('has one row per field, with its default, in order', () => {
     const rows = manifestReferenceMarkdown().trim().split('\n').slice(2).map((r) => r.split(' | ').map((c) => c.replace(/^\| /, '')));
     expect(rows.map((c) => [c[0].replace(/`/g, ''), c[2]])).toEqual(expected);

@@ -13,7 +13,7 @@ export function tempDir(prefix = 'lacuna-readers-'): { dir: string; cleanup: () 
 export function dataset(root: string, files: string[], format: DataFormat, extra: Partial<ResolvedDataset> = {}): ResolvedDataset {
   return {
     id: 'd1', path: 'data', files, relFiles: files.map((f) => relative(root, f).split('\\').join('/')),
-    format, month: null, group: null, layout: 'units-by-bins' as Layout, series: null, member: null, ...extra,
+    format, month: null, group: null, layout: 'units-by-bins' as Layout, series: null, member: null, sorter: null, imaging: null, ...extra,
   };
 }
 
