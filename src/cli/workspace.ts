@@ -42,7 +42,7 @@ export function chooseWorkspace(flag: string | undefined, command: string, cwd =
   const found = findWorkspace(cwd);
   if (found) return { workspace: found, found: true };
   throw new UsageError(`lacuna ${command}: no workspace found: neither ${printable(cwd)} nor any folder above it holds an audits/ folder`, {
-    hint: 'run it inside a workspace, pass --workspace DIR, or make a new one with `lacuna init DIR`',
+    hint: `run it inside a workspace, pass ${command === 'serve' ? '--out SITE-DIR or ' : ''}--workspace DIR, or make a new one with \`lacuna init DIR\``,
   });
 }
 

@@ -32,6 +32,7 @@ describe('default workspace', () => {
       expect(r.stderr).toContain('--workspace');
       expect(r.stderr).not.toMatch(/content|no problems/); // not the packaged demo
     }
+    expect(lacuna(['serve'], elsewhere).stderr).toContain('--out SITE-DIR');
   });
 
   it('inside a workspace (or a folder under it): check uses it and says which in one line', () => {
