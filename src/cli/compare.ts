@@ -1,5 +1,5 @@
 /** `lacuna compare AUDIT A B`: inputs, parameters and measures that changed between two versions. */
-import { existsSync, readdirSync, readFileSync, statSync } from 'node:fs';
+import { readdirSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { compareVersions, formatComparison } from '../audit/compare.ts';
 import { readRecord } from '../audit/versions.ts';
@@ -18,7 +18,8 @@ const SLUG = /^[a-z0-9][a-z0-9-]{0,63}$/;
 async function knownAudits(workspace: string): Promise<string[]> {
   const names = new Set<string>();
   const records = join(workspace, 'records');
-  if (existsSync(records)) for (const a of readdirSync(records)) if (!a.startsWith('.') && statSync(join(records, a)).isDirectory()) names.add(a);
+  const isFolder = (p: string) => statSync(p, { throwIfNoEntry: false })?.isDirectory() ?? false;
+  if (isFolder(records)) for (const a of readdirSync(records)) if (!a.startsWith('.') && isFolder(join(records, a))) names.add(a);
   let files: string[] = [];
   try {
     files = await findManifests(workspace);

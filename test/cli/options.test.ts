@@ -6,7 +6,7 @@
  * Run from temporary folders outside the repository.
  */
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
-import { readFileSync } from 'node:fs';
+import { mkdirSync, readFileSync, symlinkSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { COMMANDS } from '../../src/cli/commands.ts';
 import { cleanUp, lacuna, tempDir } from './run.ts';
@@ -77,6 +77,12 @@ describe('arguments', () => {
     expect(r.stderr).toContain('no such audit "kc-survy"');
     expect(r.stderr).toContain('kc-imaging, kc-survey, pruned-net');
     expect(r.stderr).not.toContain('has no version');
+    // A broken link among the records is no audit, and no internal error.
+    mkdirSync(join(ws, 'records'), { recursive: true });
+    symlinkSync(join(ws, 'nowhere'), join(ws, 'records', 'ghost'));
+    const ghost = lacuna(['compare', 'kc-survy', 'v001', 'v002'], ws);
+    expect(ghost.status).toBe(1);
+    expect(ghost.stderr).toContain('audits there: kc-imaging, kc-survey, pruned-net)');
     // A known audit without versions still says to build first.
     const known = lacuna(['compare', 'kc-survey', 'v001', 'v002'], ws);
     expect(known.stderr).toContain('no version v001');
