@@ -1,8 +1,51 @@
 /** `lacuna compare AUDIT A B`: inputs, parameters and measures that changed between two versions. */
+import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { join } from 'node:path';
 import { compareVersions, formatComparison } from '../audit/compare.ts';
 import { readRecord } from '../audit/versions.ts';
+import { InputError } from '../errors.ts';
+import { findManifests, MAX_MANIFEST_BYTES } from '../manifest/load.ts';
+import { parseManifestText } from '../manifest/parse.ts';
+import { printable } from './printable.ts';
+
+/** An audit name as the manifest schema allows it (so it names a folder inside records/). */
+const SLUG = /^[a-z0-9][a-z0-9-]{0,63}$/;
+
+/**
+ * The audits a workspace knows: those with records, and those its manifests name (a manifest
+ * that cannot be read names none; `lacuna check` reports it).
+ */
+async function knownAudits(workspace: string): Promise<string[]> {
+  const names = new Set<string>();
+  const records = join(workspace, 'records');
+  const isFolder = (p: string) => statSync(p, { throwIfNoEntry: false })?.isDirectory() ?? false;
+  if (isFolder(records)) for (const a of readdirSync(records)) if (!a.startsWith('.') && isFolder(join(records, a))) names.add(a);
+  let files: string[] = [];
+  try {
+    files = await findManifests(workspace);
+  } catch {
+    // no audits/ folder: only the records count
+  }
+  for (const f of files) {
+    try {
+      if (statSync(f).size > MAX_MANIFEST_BYTES) continue;
+      const { data } = parseManifestText(readFileSync(f, 'utf8'), f);
+      const audit = (data as { audit?: unknown }).audit;
+      if (typeof audit === 'string' && SLUG.test(audit)) names.add(audit);
+    } catch {
+      // an unreadable manifest names no audit here
+    }
+  }
+  return [...names].sort();
+}
 
 export async function runCompare(workspace: string, [audit, a, b]: [string, string, string], json: boolean): Promise<number> {
+  const known = await knownAudits(workspace);
+  if (!known.includes(audit)) {
+    throw new InputError(`no such audit "${printable(audit)}" in ${printable(workspace)}`, {
+      hint: known.length ? `audits there: ${known.map(printable).join(', ')}` : 'it has no audits yet: add a manifest to audits/ and run `lacuna build`',
+    });
+  }
   const from = readRecord(workspace, audit, a).result;
   const to = readRecord(workspace, audit, b).result;
   const comparison = compareVersions(from, to);

@@ -4,74 +4,33 @@
  * Exit codes: 0 done; 1 the inputs have problems (check found some, or a build stopped on
  * bad input: the message names the file and place); 2 usage error; 70 internal error (a bug:
  * please report it with the printed chain of causes).
+ *
+ * Commands, their arguments and options are one table (commands.ts); help is made from it.
  */
 import { resolve, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import { InputError, InputErrors, causeChain } from '../errors.ts';
-import { parseArgs, flagHelp, usage, UsageError, type FlagSpec } from './args.ts';
+import { InputErrors, InputError, causeChain } from '../errors.ts';
+import { parseArgs, flagHelp, flagUsage, UsageError } from './args.ts';
+import { COMMANDS } from './commands.ts';
 import { createProgress } from './progress.ts';
+import { printable } from './printable.ts';
+import { chooseOut, chooseWorkspace, describeChoice } from './workspace.ts';
 import { TOOL_VERSION } from '../version.ts';
 
-const REPO = resolve(fileURLToPath(new URL('../..', import.meta.url)));
-const DEFAULT_WORKSPACE = join(REPO, 'content');
-const DEFAULT_OUT = join(REPO, '_site');
+/** The installed package: only `lacuna demo` works here. */
+const PACKAGE = resolve(fileURLToPath(new URL('../..', import.meta.url)));
+const DEMO_WORKSPACE = join(PACKAGE, 'content');
+const DEMO_OUT = join(PACKAGE, '_site');
 
-const common: FlagSpec = {
-  workspace: { type: 'string', help: 'workspace folder holding audits/*.md', default: DEFAULT_WORKSPACE },
-  quiet: { type: 'boolean', help: 'print nothing but errors' },
-};
-
-const COMMANDS: Record<string, { summary: string; usage: string; flags: FlagSpec; details?: string }> = {
-  init: {
-    summary: 'make a new workspace holding the demo scenario',
-    usage: 'lacuna init DIR',
-    flags: { quiet: common.quiet },
-    details: 'Writes DIR/audits/*.md (three example manifests) and DIR/data/ (seeded demo data). Existing manifests are kept.',
-  },
-  check: {
-    summary: 'validate every manifest and every data file header, without computing',
-    usage: 'lacuna check [--workspace DIR]',
-    flags: common,
-    details: 'Lists every problem found (file, field or place, what was found, what is allowed) and exits 1 if there is one.',
-  },
-  build: {
-    summary: 'compute every audit and write its versioned report',
-    usage: 'lacuna build [--workspace DIR] [--out DIR] [--audit SLUG] [--shard I/N] [--quiet]',
-    flags: {
-      ...common,
-      out: { type: 'string', help: 'output folder for the static site', default: DEFAULT_OUT },
-      audit: { type: 'string', help: 'build only this audit' },
-      shard: { type: 'string', help: 'compute only share I of N of the datasets into the cache; render nothing' },
-      workers: { type: 'string', help: 'worker threads for computing datasets', default: 'auto' },
-    },
-    details:
-      'Unchanged inputs reuse the latest version; changed inputs make a new immutable version under OUT/AUDIT/VERSION/.\n' +
-      'Records of every version are kept in WORKSPACE/records/ (commit them); computed datasets are cached in WORKSPACE/.lacuna-cache/.',
-  },
-  compare: {
-    summary: 'what changed between two versions of an audit',
-    usage: 'lacuna compare AUDIT VERSION-A VERSION-B [--workspace DIR] [--json]',
-    flags: { ...common, json: { type: 'boolean', help: 'print the comparison as JSON' } },
-  },
-  serve: {
-    summary: 'preview the built site on this machine',
-    usage: 'lacuna serve [--out DIR] [--port N]',
-    flags: {
-      out: { type: 'string', help: 'site folder to serve', default: DEFAULT_OUT },
-      port: { type: 'string', help: 'port on 127.0.0.1', default: '8080' },
-    },
-  },
-  demo: {
-    summary: "write the demo data into this repository's content/ and build it",
-    usage: 'lacuna demo [--out DIR] [--quiet]',
-    flags: { out: { type: 'string', help: 'output folder', default: DEFAULT_OUT }, quiet: common.quiet },
-  },
-};
+function usageLine(name: string): string {
+  const c = COMMANDS[name];
+  return ['lacuna', name, ...c.args, flagUsage(c.flags)].filter(Boolean).join(' ');
+}
 
 function help(command?: string): string {
   if (command && COMMANDS[command]) {
     const c = COMMANDS[command];
-    return `${c.usage}\n\n${c.summary}.\n${c.details ? `\n${c.details}\n` : ''}\nOptions:\n${flagHelp(c.flags)}\n`;
+    return `${usageLine(command)}\n\n${c.summary}.\n${c.details ? `\n${c.details}\n` : ''}\nOptions:\n${flagHelp(c.flags)}\n`;
   }
   return (
     `lacuna ${TOOL_VERSION}: sparsity audits with intervals, findings, drift and versioned reports\n\n` +
@@ -79,25 +38,35 @@ function help(command?: string): string {
     Object.entries(COMMANDS)
       .map(([n, c]) => `  ${n.padEnd(9)}${c.summary}`)
       .join('\n') +
-    `\n  help     show help for a command (lacuna help build)\n\nStart with: lacuna init my-workspace && lacuna build --workspace my-workspace\n`
+    `\n  help     show help for a command (lacuna help build)\n  version  print the version (also -v, --version)\n\n` +
+    `Commands that take --workspace use the current folder, or the nearest folder above it holding audits/.\n` +
+    `Start with: lacuna init my-workspace && cd my-workspace && lacuna build\n`
   );
+}
+
+function version(): string {
+  // How this process runs its code (bin/entry.mjs chooses): useful in a bug report.
+  const how = import.meta.url.endsWith('.js') ? 'compiled JavaScript in dist/' : 'TypeScript sources through tsx';
+  return `${TOOL_VERSION} (${how})\n`;
 }
 
 export async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;
   if (!command || command === 'help' || command === '--help' || command === '-h') {
+    if (rest[0] !== undefined && !COMMANDS[rest[0]]) {
+      process.stderr.write(`lacuna: no command "${printable(rest[0])}"\n\n${help()}`);
+      return 2;
+    }
     process.stdout.write(help(rest[0]));
     return 0;
   }
-  if (command === '--version') {
-    // How this process runs its code (bin/entry.mjs chooses): useful in a bug report.
-    const how = import.meta.url.endsWith('.js') ? 'compiled JavaScript in dist/' : 'TypeScript sources through tsx';
-    process.stdout.write(`${TOOL_VERSION} (${how})\n`);
+  if (command === '--version' || command === '-v' || command === 'version') {
+    process.stdout.write(version());
     return 0;
   }
-  const spec = COMMANDS[command];
+  const spec = Object.hasOwn(COMMANDS, command) ? COMMANDS[command] : undefined;
   if (!spec) {
-    process.stderr.write(`lacuna: unknown command "${command}"\n\n${help()}`);
+    process.stderr.write(`lacuna: unknown command "${printable(command)}"\n\n${help()}`);
     return 2;
   }
   if (rest.includes('--help') || rest.includes('-h')) {
@@ -105,32 +74,41 @@ export async function main(argv: string[]): Promise<number> {
     return 0;
   }
   try {
-    const { flags, positionals } = parseArgs(command, rest, spec.flags);
+    const { flags, positionals } = parseArgs(command, rest, spec.flags, spec.args);
     const progress = createProgress({ quiet: Boolean(flags.quiet) });
+    const given = (name: string) => (flags[name] === undefined ? undefined : String(flags[name]));
+    /** The workspace (and output folder) used, said in one line when found rather than given. */
+    const where = (withOut: boolean) => {
+      const chosen = chooseWorkspace(given('workspace'), command);
+      const out = chooseOut(given('out'), chosen.workspace);
+      const line = describeChoice(chosen, withOut ? { path: out, given: given('out') !== undefined } : undefined);
+      if (line) progress.info(line);
+      return { workspace: chosen.workspace, out };
+    };
     switch (command) {
       case 'init':
-        return await (await import('./init.ts')).runInit(positionals, progress);
+        return await (await import('./init.ts')).runInit(positionals[0], progress, { addMissing: Boolean(flags['add-missing']) });
       case 'check':
-        return await (await import('./check.ts')).runCheck(resolve(String(flags.workspace)), progress);
-      case 'build':
-        return await (await import('./build.ts')).runBuild({
-          workspace: resolve(String(flags.workspace)),
-          out: resolve(String(flags.out)),
-          audit: flags.audit as string | undefined,
-          shard: flags.shard as string | undefined,
-          workers: String(flags.workers),
-          progress,
-        });
-      case 'demo': {
-        const { runInit } = await import('./init.ts');
-        await runInit([DEFAULT_WORKSPACE], progress, { keepManifests: true });
-        return await (await import('./build.ts')).runBuild({ workspace: DEFAULT_WORKSPACE, out: resolve(String(flags.out)), progress, workers: 'auto' });
+        return await (await import('./check.ts')).runCheck(where(false).workspace, progress);
+      case 'build': {
+        const { workspace, out } = where(true);
+        return await (await import('./build.ts')).runBuild({ workspace, out, audit: given('audit'), shard: given('shard'), workers: given('workers'), progress });
       }
-      case 'compare':
-        if (positionals.length !== 3) throw usage('compare', 'needs AUDIT VERSION-A VERSION-B', spec.flags);
-        return await (await import('./compare.ts')).runCompare(resolve(String(flags.workspace)), positionals as [string, string, string], Boolean(flags.json));
-      case 'serve':
-        return await (await import('./serve.ts')).runServe(resolve(String(flags.out)), String(flags.port));
+      case 'demo': {
+        // The packaged demo: regenerated in place (seeded, so the same bytes), then built.
+        const { makeDemo } = await import('../demo/scenario.ts');
+        const step = progress.step('writing demo scenario', 1);
+        step.done(`${makeDemo(DEMO_WORKSPACE, { overwriteManifests: false }).files.length} data files`);
+        return await (await import('./build.ts')).runBuild({ workspace: DEMO_WORKSPACE, out: given('out') !== undefined ? resolve(String(flags.out)) : DEMO_OUT, progress, workers: 'auto' });
+      }
+      case 'compare': {
+        const { workspace } = where(false);
+        return await (await import('./compare.ts')).runCompare(workspace, positionals as [string, string, string], Boolean(flags.json));
+      }
+      case 'serve': {
+        const out = given('out') !== undefined ? resolve(String(flags.out)) : where(true).out;
+        return await (await import('./serve.ts')).runServe(out, String(flags.port));
+      }
     }
     return 2;
   } catch (err) {

@@ -1,58 +1,77 @@
 /**
- * `lacuna serve`: a read-only static file server on 127.0.0.1 for previewing the built site.
- * Serves only files inside the site folder (no `..` escape, no symlink leaving it).
+ * `lacuna serve`: a read-only static file server on 127.0.0.1 for previewing the built site
+ * (what it answers: serve-files.ts).
+ *
+ * It stops on SIGINT (Ctrl-C), SIGTERM and SIGHUP, closing open connections at once. Started
+ * through npm (`npx lacuna serve`, `npm run …`), it runs under `sh -c` under npm: killing npm
+ * ends npm and that shell but no signal reaches this process, which is left running with a new
+ * parent. So under npm it also watches its parent process and stops when that changes.
  */
 import { createServer } from 'node:http';
-import { createReadStream, existsSync, realpathSync, statSync } from 'node:fs';
-import { extname, join, resolve, sep } from 'node:path';
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
 import { InputError } from '../errors.ts';
+import { answer } from './serve-files.ts';
+import { printable } from './printable.ts';
 
-const TYPES: Record<string, string> = {
-  '.html': 'text/html; charset=utf-8',
-  '.css': 'text/css; charset=utf-8',
-  '.js': 'text/javascript; charset=utf-8',
-  '.json': 'application/json',
-  '.svg': 'image/svg+xml',
-  '.csv': 'text/csv; charset=utf-8',
-  '.md': 'text/markdown; charset=utf-8',
-  '.tex': 'text/plain; charset=utf-8',
-  '.bib': 'text/plain; charset=utf-8',
-  '.png': 'image/png',
-};
+export { resolveStatic, folderRedirect } from './serve-files.ts';
 
-/** Map a URL path to a file inside `root`, or null when it would leave it or does not exist. */
-export function resolveStatic(root: string, urlPath: string): string | null {
-  let decoded: string;
-  try {
-    decoded = decodeURIComponent(urlPath.split('?')[0]);
-  } catch {
-    return null;
+const STOP_SIGNALS = ['SIGINT', 'SIGTERM', 'SIGHUP'] as const;
+
+function listenProblem(err: NodeJS.ErrnoException, port: number): unknown {
+  if (err.code === 'EADDRINUSE') {
+    return new InputError(`port ${port} on 127.0.0.1 is already in use (another server, perhaps another lacuna serve, is listening there)`, {
+      hint: `choose a free port with --port, e.g. --port ${port < 65535 ? port + 1 : 8081}`,
+    });
   }
-  const realRoot = realpathSync(root);
-  let p = resolve(realRoot, '.' + decoded);
-  if (p !== realRoot && !p.startsWith(realRoot + sep)) return null;
-  if (existsSync(p) && statSync(p).isDirectory()) p = join(p, 'index.html');
-  if (!existsSync(p)) return null;
-  const real = realpathSync(p);
-  return real.startsWith(realRoot + sep) ? real : null;
+  if (err.code === 'EACCES') {
+    return new InputError(`not allowed to listen on port ${port}`, { hint: 'ports below 1024 need special rights: choose one from 1024 to 65535 with --port' });
+  }
+  return err;
 }
 
-export async function runServe(out: string, portText: string): Promise<number> {
+export async function runServe(out: string, portText: string, log: (line: string) => void = (l) => process.stderr.write(`${l}\n`)): Promise<number> {
+  // The parent is read first, before anyone can be told the server is up and kill npm.
+  const parent = process.ppid;
   const port = Number(portText);
-  if (!Number.isInteger(port) || port < 1 || port > 65535) throw new InputError(`--port must be a whole number from 1 to 65535, got "${portText}"`);
-  if (!existsSync(join(out, 'index.html'))) throw new InputError(`no built site in ${out}`, { hint: 'run `lacuna build` first' });
+  if (!Number.isInteger(port) || port < 1 || port > 65535) throw new InputError(`--port must be a whole number from 1 to 65535, got "${printable(portText)}"`);
+  if (!existsSync(join(out, 'index.html'))) throw new InputError(`no built site in ${printable(out)}`, { hint: 'run `lacuna build` first, or name the site folder with --out' });
   const server = createServer((req, res) => {
-    const file = resolveStatic(out, req.url ?? '/');
-    if (!file || (req.method !== 'GET' && req.method !== 'HEAD')) {
-      res.writeHead(404, { 'content-type': 'text/plain' }).end('not found\n');
-      return;
-    }
-    res.writeHead(200, { 'content-type': TYPES[extname(file)] ?? 'application/octet-stream' });
-    if (req.method === 'HEAD') res.end();
-    else createReadStream(file).pipe(res);
+    answer(out, req, res, log).catch((err: unknown) => {
+      log(`could not answer ${printable(req.url ?? '')}: ${err instanceof Error ? err.message : String(err)}`);
+      if (!res.headersSent) res.writeHead(500, { 'content-type': 'text/plain; charset=utf-8' }).end('internal error\n');
+      else res.destroy();
+    });
   });
-  await new Promise<void>((ok) => server.listen(port, '127.0.0.1', ok));
-  process.stderr.write(`serving ${out} at http://127.0.0.1:${port}/ (Ctrl-C to stop)\n`);
-  await new Promise<void>((ok) => process.once('SIGINT', () => server.close(() => ok())));
+  await new Promise<void>((ok, fail) => {
+    server.once('error', (err) => fail(listenProblem(err as NodeJS.ErrnoException, port)));
+    server.listen(port, '127.0.0.1', () => ok());
+  });
+  server.removeAllListeners('error');
+  server.on('error', (err) => log(`server error: ${err.message}`));
+  log(`serving ${printable(out)} at http://127.0.0.1:${port}/ (Ctrl-C to stop)`);
+
+  // Wait for a stop signal, or (under npm) for the parent process to go away.
+  let watch: NodeJS.Timeout | undefined;
+  const handlers = new Map<string, () => void>();
+  const why = await new Promise<string>((ok) => {
+    for (const s of STOP_SIGNALS) {
+      const h = () => ok(s);
+      handlers.set(s, h);
+      process.once(s, h);
+    }
+    if (process.env.npm_command !== undefined) {
+      watch = setInterval(() => {
+        if (process.ppid !== parent) ok('npm, which started it, has ended');
+      }, 500);
+    }
+  });
+  clearInterval(watch);
+  for (const [s, h] of handlers) process.off(s, h);
+  await new Promise<void>((ok) => {
+    server.close(() => ok());
+    server.closeAllConnections();
+  });
+  log(`stopped (${why})`);
   return 0;
 }

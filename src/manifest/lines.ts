@@ -114,3 +114,72 @@ function findItem(lines: Line[], scope: Scope, index: number): { line: number; s
   // `- id: a` puts the item's first key on the item line; a bare `-` puts it on the next line.
   return { line, scope: { start: l.keyText === '' ? line + 1 : line, end, col: l.keyText === '' ? null : l.keyCol, inline: l.keyText, inlineLine: line } };
 }
+
+/**
+ * The flow collection (`{` or `[`) that is open at `position` of a YAML block and never closed
+ * after it, for a syntax error whose true cause is a missing `}` or `]`: the parser only notices
+ * on a later line, so its line alone points past the mistake. Returns the 0-based line and
+ * column of the opening bracket, or null when every collection open there is closed later.
+ *
+ * A text scan, not a YAML parse: brackets count inside flow collections and, outside them, only
+ * where a value starts (after `key:`, `- ` or at the start of a line); quoted scalars and
+ * comments are skipped. Brackets inside block scalars (`|`, `>`) can fool it.
+ */
+export function unclosedFlowAt(block: string, position: number): { line: number; column: number; bracket: string } | null {
+  const stack: { line: number; column: number; bracket: string; pos: number }[] = [];
+  let line = 0;
+  let lineStart = 0;
+  let openAtError: typeof stack | null = null;
+  let valueStart = true; // a value or key may start here (outside flow collections)
+  for (let i = 0; i < block.length; i++) {
+    if (openAtError === null && i >= position) openAtError = [...stack];
+    const c = block[i];
+    if (c === '\n') {
+      line++;
+      lineStart = i + 1;
+      valueStart = true;
+      continue;
+    }
+    const prev = i > lineStart ? block[i - 1] : '\n';
+    if (c === '#' && /\s/.test(prev)) {
+      while (i + 1 < block.length && block[i + 1] !== '\n') i++;
+      continue;
+    }
+    const startsToken = stack.length > 0 ? /[\s{[,:]/.test(prev) : valueStart;
+    if ((c === '"' || c === "'") && startsToken) {
+      // Skip the quoted scalar (`\"` escapes in double quotes, `''` in single quotes).
+      for (i++; i < block.length; i++) {
+        if (block[i] === '\n') {
+          line++;
+          lineStart = i + 1;
+        } else if (c === '"' && block[i] === '\\') i++;
+        else if (block[i] === c) {
+          if (c === "'" && block[i + 1] === "'") i++;
+          else break;
+        }
+      }
+      valueStart = false;
+      continue;
+    }
+    if ((c === '{' || c === '[') && (stack.length > 0 || valueStart)) {
+      stack.push({ line, column: i - lineStart, bracket: c, pos: i });
+      continue;
+    }
+    if ((c === '}' || c === ']') && stack.length > 0) {
+      stack.pop();
+      continue;
+    }
+    if (stack.length === 0) {
+      if (c === ':' && /[\s]/.test(block[i + 1] ?? ' ')) valueStart = true;
+      else if (c === '-' && valueStart && /[\s]/.test(block[i + 1] ?? ' ')) valueStart = true;
+      else if (!/\s/.test(c)) valueStart = false;
+    }
+  }
+  if (openAtError === null) openAtError = [...stack];
+  // The innermost collection open at the error that is still open at the end was never closed.
+  for (let k = openAtError.length - 1; k >= 0; k--) {
+    const o = openAtError[k];
+    if (stack.some((s) => s.pos === o.pos)) return { line: o.line, column: o.column, bracket: o.bracket };
+  }
+  return null;
+}

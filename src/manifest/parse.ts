@@ -14,13 +14,13 @@
 import { createRequire } from 'node:module';
 import matter from 'gray-matter';
 import { InputError } from '../errors.ts';
-import { makeLineOf } from './lines.ts';
+import { makeLineOf, unclosedFlowAt } from './lines.ts';
 
 /** The parts of js-yaml 3 used here (it ships no types). */
 interface JsYaml3 {
   load(text: string, options: { schema: unknown; filename?: string; json?: boolean; listener?: (event: 'open' | 'close', state: YamlState) => void }): unknown;
   CORE_SCHEMA: unknown;
-  YAMLException: new (...args: never[]) => Error & { reason?: string; mark?: { line: number; column: number } };
+  YAMLException: new (...args: never[]) => Error & { reason?: string; mark?: { line: number; column: number; position?: number } };
 }
 interface YamlState { anchor?: string | null; line: number }
 
@@ -114,6 +114,17 @@ function loadYaml(str: string, file: string): unknown {
     if (err instanceof yaml.YAMLException) {
       const line = err.mark ? err.mark.line + 1 : undefined;
       const reason = err.reason ?? err.message;
+      // A missing `}` or `]` is noticed only lines later: name the line the collection opened on.
+      const open = err.mark?.position !== undefined ? unclosedFlowAt(str, err.mark.position) : null;
+      if (open && line !== undefined) {
+        const name = open.bracket === '{' ? 'flow mapping `{`' : 'flow sequence `[`';
+        throw new InputError(`YAML error: the ${name} opened on line ${open.line + 1} is not closed; the parser gave up on line ${line} (${reason})`, {
+          file,
+          line: open.line + 1,
+          hint: `close it with \`${open.bracket === '{' ? '}' : ']'}\` on line ${open.line + 1}`,
+          cause: err,
+        });
+      }
       const tagHint = /unknown tag/.test(reason) ? 'tags such as !!js/function or !custom are not allowed: manifests are plain data' : undefined;
       throw new InputError(`YAML error: ${reason}`, { file, line, hint: tagHint, cause: err });
     }
