@@ -21,8 +21,13 @@
  * autocorrelation at lag 1…K_n: iid-like data) or ĝ ≤ 0 gives 1.
  *
  * NaN or ±Infinity in `x` is a `RangeError` (remove undefined items first); n < 4 gives 1.
- * Zeros and negative values are ordinary values. Cost: O(n·√n) for the autocovariances.
+ * Zeros and negative values are ordinary values. Cost: O(n) when m̂ is small (lags up to
+ * DIRECT_LAGS − 1 by direct sums, the same sums in the same order as the definition), else
+ * O(n log n) time and 32·n bytes or so for the remaining lags by FFT (autocovariance.ts); never
+ * the O(n·√n) of direct sums up to m_max.
  */
+
+import { DIRECT_LAGS, autocovariancesDirect, autocovariancesFft } from './autocovariance.ts';
 
 /** Everything the rule computed, for reports and tests. */
 export interface BlockLengthDetails {
@@ -73,26 +78,30 @@ export function politisWhiteDetails(x: Float64Array): BlockLengthDetails {
   mean /= n;
   const Kn = Math.max(5, Math.ceil(Math.sqrt(Math.log10(n))));
   const mMax = Math.min(n - 1, Math.ceil(Math.sqrt(n)) + Kn);
-  const R = new Float64Array(mMax + 1);
   const e = new Float64Array(n);
   for (let i = 0; i < n; i++) e[i] = x[i] - mean;
-  for (let k = 0; k <= mMax; k++) {
-    let s = 0;
-    for (let t = 0; t + k < n; t++) s += e[t] * e[t + k];
-    R[k] = s / n;
-  }
+  // Lags 0…L0 by direct sums; the rest (only when the search or the window needs them) by FFT.
+  const L0 = Math.min(mMax, DIRECT_LAGS - 1);
+  let R: Float64Array = new Float64Array(mMax + 1);
+  autocovariancesDirect(e, 0, L0, R);
   if (!(R[0] > 0)) return result(NaN, 0, 0, 0, 0);
 
   // m̂: smallest m with |ρ̂(m+1)|, …, |ρ̂(m+Kn)| all below the threshold.
   const threshold = 2 * Math.sqrt(Math.log10(n) / n);
-  let mHat = -1;
-  let run = 0;
-  for (let k = 1; k <= mMax; k++) {
-    run = Math.abs(R[k] / R[0]) < threshold ? run + 1 : 0;
-    if (run === Kn) {
-      mHat = k - Kn;
-      break;
+  const search = (upTo: number): number => {
+    let run = 0;
+    for (let k = 1; k <= upTo; k++) {
+      run = Math.abs(R[k] / R[0]) < threshold ? run + 1 : 0;
+      if (run === Kn) return k - Kn;
     }
+    return -1;
+  };
+  let mHat = search(L0);
+  if (L0 < mMax && (mHat < 0 || 2 * mHat > L0)) {
+    const direct = R;
+    R = autocovariancesFft(e, mMax);
+    R.set(direct.subarray(0, L0 + 1));
+    mHat = search(mMax);
   }
   const M = mHat < 0 ? mMax : Math.min(2 * mHat, mMax);
   if (mHat < 0) mHat = mMax;
