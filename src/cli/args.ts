@@ -3,6 +3,7 @@
  * usage error that names the flag and lists what the command accepts.
  */
 import { InputError } from '../errors.ts';
+import { pushAll } from '../util/arrays.ts';
 
 export type FlagSpec = Record<string, { type: 'string' | 'boolean'; help: string; default?: string | boolean }>;
 
@@ -18,7 +19,7 @@ export function parseArgs(command: string, argv: string[], spec: FlagSpec): Pars
   for (let i = 0; i < argv.length; i++) {
     const arg = argv[i];
     if (arg === '--') {
-      positionals.push(...argv.slice(i + 1));
+      pushAll(positionals, argv.slice(i + 1));
       break;
     }
     if (!arg.startsWith('--')) {
