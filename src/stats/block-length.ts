@@ -21,8 +21,8 @@
  * autocorrelation at lag 1…K_n: iid-like data) or ĝ ≤ 0 gives 1.
  *
  * NaN or ±Infinity in `x` is a `RangeError` (remove undefined items first); n < 4 gives 1.
- * Zeros and negative values are ordinary values. Cost: O(n) when m̂ is small (lags up to
- * DIRECT_LAGS − 1 by direct sums, the same sums in the same order as the definition), else
+ * Zeros and negative values are ordinary values. Cost: O(n·(m̂ + K_n)) when the lags the rule
+ * needs stay below DIRECT_LAGS (direct sums, the same sums in the same order as before), else
  * O(n log n) time and 32·n bytes or so for the remaining lags by FFT (autocovariance.ts); never
  * the O(n·√n) of direct sums up to m_max.
  */
@@ -80,28 +80,37 @@ export function politisWhiteDetails(x: Float64Array): BlockLengthDetails {
   const mMax = Math.min(n - 1, Math.ceil(Math.sqrt(n)) + Kn);
   const e = new Float64Array(n);
   for (let i = 0; i < n; i++) e[i] = x[i] - mean;
-  // Lags 0…L0 by direct sums; the rest (only when the search or the window needs them) by FFT.
+  // Lags by direct sums as the search reaches them, up to L0; past L0, every lag up to m_max by
+  // FFT at once (the direct values already computed are kept).
   const L0 = Math.min(mMax, DIRECT_LAGS - 1);
   let R: Float64Array = new Float64Array(mMax + 1);
-  autocovariancesDirect(e, 0, L0, R);
+  let computed = 0;
+  autocovariancesDirect(e, 0, 0, R);
+  const lag = (k: number): number => {
+    if (k <= computed) return R[k];
+    if (k <= L0) {
+      autocovariancesDirect(e, computed + 1, k, R);
+      computed = k;
+    } else {
+      const all = autocovariancesFft(e, mMax);
+      all.set(R.subarray(0, computed + 1));
+      R = all;
+      computed = mMax;
+    }
+    return R[k];
+  };
   if (!(R[0] > 0)) return result(NaN, 0, 0, 0, 0);
 
   // m̂: smallest m with |ρ̂(m+1)|, …, |ρ̂(m+Kn)| all below the threshold.
   const threshold = 2 * Math.sqrt(Math.log10(n) / n);
-  const search = (upTo: number): number => {
-    let run = 0;
-    for (let k = 1; k <= upTo; k++) {
-      run = Math.abs(R[k] / R[0]) < threshold ? run + 1 : 0;
-      if (run === Kn) return k - Kn;
+  let mHat = -1;
+  let run = 0;
+  for (let k = 1; k <= mMax; k++) {
+    run = Math.abs(lag(k) / R[0]) < threshold ? run + 1 : 0;
+    if (run === Kn) {
+      mHat = k - Kn;
+      break;
     }
-    return -1;
-  };
-  let mHat = search(L0);
-  if (L0 < mMax && (mHat < 0 || 2 * mHat > L0)) {
-    const direct = R;
-    R = autocovariancesFft(e, mMax);
-    R.set(direct.subarray(0, L0 + 1));
-    mHat = search(mMax);
   }
   const M = mHat < 0 ? mMax : Math.min(2 * mHat, mMax);
   if (mHat < 0) mHat = mMax;
@@ -110,8 +119,9 @@ export function politisWhiteDetails(x: Float64Array): BlockLengthDetails {
   let g = R[0];
   for (let k = 1; k <= M; k++) {
     const w = flatTop(k / M);
-    G += 2 * w * k * R[k];
-    g += 2 * w * R[k];
+    const r = lag(k);
+    G += 2 * w * k * r;
+    g += 2 * w * r;
   }
   if (!(g > 0)) return result(NaN, M, mHat, G, g);
   const raw = Math.cbrt((3 * n * G * G) / (2 * g * g));
