@@ -86,7 +86,7 @@ export function checkYamlDepth(text: string, file: string, lineOffset = 0, maxDe
       throw new InputError(`YAML is nested ${depth + lineFlowMax} or more levels deep here; allowed: at most ${maxDepth} levels`, {
         file,
         line: li + 1 + lineOffset,
-        hint: 'a manifest needs about 5 levels (datasets, an item, its fields); remove the extra brackets or indentation',
+        hint: 'a manifest needs about 5 levels: datasets, an item, its fields; remove the extra brackets or indentation',
       });
     }
     // A block scalar header (`key: |`, `- >-`, `|2`) starts text that is not YAML structure.
