@@ -7,6 +7,8 @@
  * printed as an internal error by the CLI.
  */
 
+import { safeTerminal, safeTerminalLine } from './text/safe-terminal.ts';
+
 export interface InputErrorDetails {
   /** File the problem is in (workspace-relative where possible). */
   file?: string;
@@ -35,10 +37,15 @@ export class InputError extends Error {
   }
 }
 
+/**
+ * The printed message: place, message, hint. Control characters from user text (a file name
+ * with terminal escape codes) are made visible (text/safe-terminal.ts); the file and place may
+ * not even break the line.
+ */
 function formatInputMessage(message: string, d: InputErrorDetails): string {
-  const place = [d.file, d.line !== undefined ? `line ${d.line}` : undefined, d.where].filter(Boolean).join(', ');
-  const head = place ? `${place}: ${message}` : message;
-  return d.hint ? `${head} (${d.hint})` : head;
+  const place = [d.file && safeTerminalLine(d.file), d.line !== undefined ? `line ${d.line}` : undefined, d.where && safeTerminalLine(d.where)].filter(Boolean).join(', ');
+  const head = place ? `${place}: ${safeTerminal(message)}` : safeTerminal(message);
+  return d.hint ? `${head} (${safeTerminal(d.hint)})` : head;
 }
 
 /** Several input problems found together (validation collects every problem, not only the first). */
@@ -54,17 +61,20 @@ export class InputErrors extends Error {
 /** A broken invariant inside Lacuna: a bug, never the user's fault. */
 export class InternalError extends Error {
   constructor(message: string, cause?: unknown) {
-    super(`internal error: ${message}`, cause === undefined ? undefined : { cause });
+    super(`internal error: ${safeTerminal(message)}`, cause === undefined ? undefined : { cause });
     this.name = 'InternalError';
   }
 }
 
-/** The chain of causes of an error, outermost first, for printing as a numbered list. */
+/**
+ * The chain of causes of an error, outermost first, for printing as a numbered list; control
+ * characters made visible (a cause from Node may quote a file name with escape codes).
+ */
 export function causeChain(err: unknown): string[] {
   const out: string[] = [];
   let e: unknown = err;
   for (let depth = 0; e !== undefined && e !== null && depth < 10; depth++) {
-    out.push(e instanceof Error ? e.message : String(e));
+    out.push(safeTerminal(e instanceof Error ? e.message : String(e)));
     e = e instanceof Error ? (e as Error & { cause?: unknown }).cause : undefined;
   }
   return out;

@@ -22,6 +22,7 @@ import { InputError, InputErrors } from '../errors.ts';
 import type { AuditResult, DatasetResult, FileProvenance, MeasureResult } from '../types.ts';
 import { TOOL_VERSION } from '../version.ts';
 import type { Progress } from '../cli/progress.ts';
+import { RenderFailure, type RenderFailureItem } from './render-failure.ts';
 import { planHashes, readCachedDataset, recordHashes } from './cache.ts';
 import { datasetParameters, finishSplit, keyFor, unitsOf, type DatasetJob } from './dataset.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
@@ -29,6 +30,7 @@ import { createPool, type Pool, type Task } from './pool.ts';
 import { buildDrift } from './drift.ts';
 import { compareVersions } from './compare.ts';
 import { describeChange, inputsHash, listVersions, nextVersionName, readRecord, writeRecord, RECORD_FORMAT } from './versions.ts';
+import { pushAll } from '../util/arrays.ts';
 
 export interface BuildOptions {
   workspace: string;
@@ -116,7 +118,7 @@ async function loadAll(workspace: string, only?: string): Promise<ResolvedManife
     try {
       manifests.push(await loadManifest(f, workspace));
     } catch (err) {
-      if (err instanceof InputErrors) problems.push(...err.problems);
+      if (err instanceof InputErrors) pushAll(problems, err.problems);
       else if (err instanceof InputError) problems.push(err);
       else throw err;
     }
@@ -317,12 +319,21 @@ export async function renderSite(out: string, workspace: string, audits: string[
   }
   const [{ renderVersion, renderAuditIndex, renderSiteIndex, copyAssets }, { buildCharts, renderChartSvgs }] = await loadRenderModules();
   const step = progress.step('rendering pages', pending.length);
+  const failures: RenderFailureItem[] = [];
   for (const p of pending) {
     const all = listVersions(workspace, p.audit);
     const idx = all.findIndex((v) => v.version === p.version);
     const rec = readRecord(workspace, p.audit, p.version);
     const prev = idx > 0 ? readRecord(workspace, p.audit, all[idx - 1].version).result : null;
-    const charts = await renderChartSvgs(buildCharts(rec.result));
+    const failed = (step: 'charts' | 'pages', cause: unknown) =>
+      failures.push({ audit: p.audit, version: p.version, step, record: `records/${p.audit}/${p.version}.json`, cause });
+    let charts: Awaited<ReturnType<typeof renderChartSvgs>>;
+    try {
+      charts = await renderChartSvgs(buildCharts(rec.result));
+    } catch (err) {
+      failed('charts', err);
+      continue;
+    }
     const target = join(out, p.audit, p.version);
     const tmp = join(out, p.audit, `.tmp-${p.version}-${process.pid}`);
     rmSync(tmp, { recursive: true, force: true });
@@ -334,7 +345,8 @@ export async function renderSite(out: string, workspace: string, audits: string[
       renameSync(tmp, target);
     } catch (err) {
       rmSync(tmp, { recursive: true, force: true });
-      throw err;
+      failed('pages', err);
+      continue;
     }
     rendered.push(`${p.audit}/${p.version}`);
     step.advance(1);
@@ -354,6 +366,7 @@ export async function renderSite(out: string, workspace: string, audits: string[
   }
   await renderSiteIndex(siteAudits, out);
   await copyAssets(out);
+  if (failures.length) throw new RenderFailure(failures);
   return rendered;
 }
 

@@ -43,9 +43,10 @@ function readJson<T>(file: string): T | null {
  */
 export async function sha256File(path: string, onBytes?: (n: number) => void): Promise<string> {
   const hash = createHash('sha256');
-  const buf = new Uint8Array(4 << 20);
   const fh = await open(path, 'r');
   try {
+    // 4 MiB or the file's size if smaller: hashing a folder of many small files stays cheap.
+    const buf = new Uint8Array(Math.max(1, Math.min(4 << 20, (await fh.stat()).size)));
     for (let pos = 0; ; ) {
       const { bytesRead } = await fh.read(buf, 0, buf.length, pos);
       if (bytesRead === 0) break;

@@ -15,6 +15,7 @@
  */
 import type { AuditResult, DatasetResult, MeasureName, VersionComparison } from '../types.ts';
 import { ACTIVITY_MEASURES, WEIGHT_MEASURES } from '../types.ts';
+import { maxOf, pushAll } from '../util/arrays.ts';
 
 type DatasetChange = VersionComparison['datasets'][number];
 type MeasureChange = DatasetChange['measures'][number];
@@ -127,7 +128,7 @@ function value(v: unknown): string {
 }
 
 function table(rows: string[][], indent = '  '): string[] {
-  const widths = rows[0].map((_, i) => Math.max(...rows.map((r) => r[i].length)));
+  const widths = rows[0].map((_, i) => maxOf(rows.map((r) => r[i].length)));
   return rows.map((r) => indent + r.map((cell, i) => (i === r.length - 1 ? cell : cell.padEnd(widths[i]))).join('  ').trimEnd());
 }
 
@@ -140,9 +141,9 @@ export function formatComparison(c: VersionComparison): string {
     return `${lines.join('\n')}\n`;
   }
   lines.push('', 'Inputs');
-  lines.push(...(c.inputs.length ? table(c.inputs.map((i) => [i.change, i.path])) : ['  no changes']));
+  pushAll(lines, c.inputs.length ? table(c.inputs.map((i) => [i.change, i.path])) : ['  no changes']);
   lines.push('', 'Parameters');
-  lines.push(...(c.parameters.length ? table([['name', 'from', 'to'], ...c.parameters.map((p) => [p.name, value(p.from), value(p.to)])]) : ['  no changes']));
+  pushAll(lines, c.parameters.length ? table([['name', 'from', 'to'], ...c.parameters.map((p) => [p.name, value(p.from), value(p.to)])]) : ['  no changes']);
   lines.push('', 'Datasets');
   if (moved.length === 0) lines.push('  no changes');
   for (const d of moved) {
@@ -151,7 +152,7 @@ export function formatComparison(c: VersionComparison): string {
       .filter((m) => d.change !== 'changed' || m.from !== m.to)
       .map((m) => [m.measure, num(m.from), num(m.to), num(m.delta, true), m.relative === null ? '—' : `${num(100 * m.relative, true)}%`, m.overlap === null ? '—' : m.overlap ? 'yes' : 'no']);
     if (rows.length === 0) lines.push('    estimates unchanged (files, findings or intervals differ)');
-    else lines.push(...table([['measure', 'from', 'to', 'delta', 'relative', 'intervals overlap'], ...rows], '    '));
+    else pushAll(lines, table([['measure', 'from', 'to', 'delta', 'relative', 'intervals overlap'], ...rows], '    '));
   }
   const unchanged = c.datasets.length - moved.length;
   if (unchanged) lines.push('', `${plural(unchanged, 'dataset')} unchanged.`);

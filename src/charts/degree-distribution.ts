@@ -5,6 +5,7 @@
 import type { ChartSpec, DatasetResult, WeightChartData } from '../types.ts';
 import { fmt, frame, slug } from './format.ts';
 import { ROLE } from './theme.ts';
+import { minOf, maxOf } from '../util/arrays.ts';
 
 /** One chart per layer with degree data (square layers); empty for activity datasets. */
 export function degreeDistributionCharts(ds: DatasetResult): ChartSpec[] {
@@ -17,8 +18,8 @@ export function degreeDistributionCharts(ds: DatasetResult): ChartSpec[] {
       const r = rows.filter((d) => d.direction === dir);
       const nodes = r.reduce((s, d) => s + d.count, 0);
       const mean = nodes ? r.reduce((s, d) => s + d.degree * d.count, 0) / nodes : null;
-      const lo = r.length ? Math.min(...r.map((d) => d.degree)) : null;
-      const hi = r.length ? Math.max(...r.map((d) => d.degree)) : null;
+      const lo = r.length ? minOf(r.map((d) => d.degree)) : null;
+      const hi = r.length ? maxOf(r.map((d) => d.degree)) : null;
       return `${dir}-degree of ${nodes} nodes: mean ${fmt(mean)}, from ${fmt(lo)} to ${fmt(hi)}`;
     });
     const layer = cd.layers.find((l) => l.name === name);

@@ -20,6 +20,7 @@ import { lifetimeSparsenessChart } from './lifetime-sparseness.ts';
 import { measuresSummaryChart } from './measures-summary.ts';
 import { populationSparsenessChart } from './population-sparseness.ts';
 import { thresholdCurveChart } from './threshold-curve.ts';
+import { pushAll } from '../util/arrays.ts';
 
 export { compileToVega, renderChartSvg, renderChartSvgs } from './render.ts';
 export type { ChartLogger } from './render.ts';
@@ -41,11 +42,12 @@ export function buildCharts(result: AuditResult): ChartSpec[] {
     if (ds.kind === 'activity') {
       out.push(populationSparsenessChart(ds), populationSparsenessChart(ds, { events: true }), lifetimeSparsenessChart(ds), kurtosisChart(ds));
     } else {
-      out.push(layerDensityChart(ds), thresholdCurveChart(ds), ...degreeDistributionCharts(ds));
+      out.push(layerDensityChart(ds), thresholdCurveChart(ds));
+      pushAll(out, degreeDistributionCharts(ds));
     }
   }
   // 2. drift
-  if (result.drift) out.push(...driftCharts(result.drift));
+  if (result.drift) pushAll(out, driftCharts(result.drift));
   const charts = out.filter((c): c is ChartSpec => c !== null);
   // Ids must be unique on a page: suffix repeats (two dataset ids that slug alike).
   const seen = new Map<string, number>();

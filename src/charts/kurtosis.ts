@@ -5,6 +5,7 @@
 import type { ActivityChartData, ChartSpec, DatasetResult } from '../types.ts';
 import { distributionBody, definedValues } from './distribution.ts';
 import { estimatePhrase, fmt, frame, slug } from './format.ts';
+import { minOf, maxOf } from '../util/arrays.ts';
 
 /** The chart, or null when the dataset has no kurtosis estimate or no per-unit values. */
 export function kurtosisChart(ds: DatasetResult): ChartSpec | null {
@@ -27,7 +28,7 @@ export function kurtosisChart(ds: DatasetResult): ChartSpec | null {
   const description =
     `Excess kurtosis (g2) of each of ${defined.length} units in dataset ${ds.id}` +
     (undefinedUnits ? ` (${undefinedUnits} more undefined or with too few nonzero bins, not shown)` : '') +
-    `, drawn as a ${style === 'strip' ? 'strip with one tick per unit' : 'histogram'}, from ${fmt(Math.min(...vals))} to ${fmt(Math.max(...vals))}${q}. ` +
+    `, drawn as a ${style === 'strip' ? 'strip with one tick per unit' : 'histogram'}, from ${fmt(minOf(vals))} to ${fmt(maxOf(vals))}${q}. ` +
     `Median over units: ${estimatePhrase(m)}; the shaded band is the bootstrap interval and the line the median.`;
   return { id: `${slug(ds.id)}--kurtosis`, title, description, datasetId: ds.id, spec: frame(title, description, body, { height }) };
 }

@@ -6,6 +6,7 @@
 import type { ActivityChartData, ChartSpec, DatasetResult } from '../types.ts';
 import { distributionBody, definedValues } from './distribution.ts';
 import { estimatePhrase, fmt, frame, slug } from './format.ts';
+import { minOf, maxOf } from '../util/arrays.ts';
 
 /** The chart, or null when the dataset has no lifetime sparseness estimate or no per-unit values. */
 export function lifetimeSparsenessChart(ds: DatasetResult): ChartSpec | null {
@@ -27,7 +28,7 @@ export function lifetimeSparsenessChart(ds: DatasetResult): ChartSpec | null {
   const description =
     `Lifetime sparseness of each of ${defined.length} units in dataset ${ds.id}` +
     (undefinedUnits ? ` (${undefinedUnits} more undefined, not shown)` : '') +
-    `, drawn as a ${style === 'strip' ? 'strip with one tick per unit' : 'histogram'}, from ${fmt(Math.min(...vals))} to ${fmt(Math.max(...vals))}. ` +
+    `, drawn as a ${style === 'strip' ? 'strip with one tick per unit' : 'histogram'}, from ${fmt(minOf(vals))} to ${fmt(maxOf(vals))}. ` +
     `Mean over defined units: ${estimatePhrase(m)}; the shaded band is the bootstrap interval and the line the mean.`;
   return { id: `${slug(ds.id)}--lifetime-sparseness`, title, description, datasetId: ds.id, spec: frame(title, description, body, { height }) };
 }

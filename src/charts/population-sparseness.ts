@@ -9,6 +9,7 @@
 import type { ActivityChartData, ChartSpec, DatasetResult, MeasureResult } from '../types.ts';
 import { estimatePhrase, fmt, frame, slug } from './format.ts';
 import { ROLE } from './theme.ts';
+import { minOf, maxOf } from '../util/arrays.ts';
 
 type Windows = ActivityChartData['populationWindows'];
 
@@ -81,7 +82,7 @@ export function populationSparsenessChart(ds: DatasetResult, options: { events?:
   const description =
     `${kind} across units of dataset ${ds.id}, over ${span}, in ${windows.length} windows of ${cd.windowBins} bins` +
     (scale !== null ? ` (${fmt(cd.windowBins * scale)} s each)` : '') +
-    `; window means range from ${fmt(Math.min(...means))} to ${fmt(Math.max(...means))}` +
+    `; window means range from ${fmt(minOf(means))} to ${fmt(maxOf(means))}` +
     (empty ? `, ${empty} windows have no defined bin and are left as gaps` : '') +
     `. Mean over defined bins: ${estimatePhrase(m)}.`;
   return {

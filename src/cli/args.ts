@@ -4,7 +4,8 @@
  * what the command accepts.
  */
 import { InputError } from '../errors.ts';
-import { printable } from './printable.ts';
+import { safeTerminalLine } from '../text/safe-terminal.ts';
+import { pushAll } from '../util/arrays.ts';
 
 export interface FlagDef {
   type: 'string' | 'boolean';
@@ -31,18 +32,18 @@ export function parseArgs(command: string, argv: string[], spec: FlagSpec, posit
   for (let i = 0; i < argv.length; i++) {
     const arg = argv[i];
     if (arg === '--') {
-      given.push(...argv.slice(i + 1));
+      pushAll(given, argv.slice(i + 1));
       break;
     }
     if (!arg.startsWith('--')) {
-      if (arg.startsWith('-') && arg !== '-') throw usage(command, `unknown option "${printable(arg)}"`, spec);
+      if (arg.startsWith('-') && arg !== '-') throw usage(command, `unknown option "${safeTerminalLine(arg)}"`, spec);
       given.push(arg);
       continue;
     }
     const eq = arg.indexOf('=');
     const name = arg.slice(2, eq < 0 ? undefined : eq);
     const s = Object.hasOwn(spec, name) ? spec[name] : undefined;
-    if (!s) throw usage(command, `unknown option "--${printable(name)}"`, spec);
+    if (!s) throw usage(command, `unknown option "--${safeTerminalLine(name)}"`, spec);
     if (s.type === 'boolean') {
       if (eq >= 0) throw usage(command, `--${name} takes no value`, spec);
       flags[name] = true;
@@ -53,7 +54,7 @@ export function parseArgs(command: string, argv: string[], spec: FlagSpec, posit
     }
   }
   if (given.length > positionals.length) {
-    const extra = given.slice(positionals.length).map((a) => `"${printable(a)}"`);
+    const extra = given.slice(positionals.length).map((a) => `"${safeTerminalLine(a)}"`);
     const takes = positionals.length ? `takes ${positionals.join(' ')} only` : 'takes no arguments';
     throw usage(command, `unexpected argument${extra.length === 1 ? '' : 's'} ${extra.join(' ')} (${command} ${takes})`, spec);
   }

@@ -6,7 +6,7 @@ import { readRecord } from '../audit/versions.ts';
 import { InputError } from '../errors.ts';
 import { findManifests, MAX_MANIFEST_BYTES } from '../manifest/load.ts';
 import { parseManifestText } from '../manifest/parse.ts';
-import { printable } from './printable.ts';
+import { safeTerminal, safeTerminalLine } from '../text/safe-terminal.ts';
 
 /** An audit name as the manifest schema allows it (so it names a folder inside records/). */
 const SLUG = /^[a-z0-9][a-z0-9-]{0,63}$/;
@@ -42,13 +42,13 @@ async function knownAudits(workspace: string): Promise<string[]> {
 export async function runCompare(workspace: string, [audit, a, b]: [string, string, string], json: boolean): Promise<number> {
   const known = await knownAudits(workspace);
   if (!known.includes(audit)) {
-    throw new InputError(`no such audit "${printable(audit)}" in ${printable(workspace)}`, {
-      hint: known.length ? `audits there: ${known.map(printable).join(', ')}` : 'it has no audits yet: add a manifest to audits/ and run `lacuna build`',
+    throw new InputError(`no such audit "${safeTerminalLine(audit)}" in ${safeTerminalLine(workspace)}`, {
+      hint: known.length ? `audits there: ${known.map(safeTerminalLine).join(', ')}` : 'it has no audits yet: add a manifest to audits/ and run `lacuna build`',
     });
   }
   const from = readRecord(workspace, audit, a).result;
   const to = readRecord(workspace, audit, b).result;
   const comparison = compareVersions(from, to);
-  process.stdout.write(json ? `${JSON.stringify(comparison, null, 2)}\n` : formatComparison(comparison));
+  process.stdout.write(json ? `${JSON.stringify(comparison, null, 2)}\n` : safeTerminal(formatComparison(comparison)));
   return 0;
 }

@@ -13,7 +13,7 @@ import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { InputError } from '../errors.ts';
 import { makeDemo } from '../demo/scenario.ts';
-import { printable } from './printable.ts';
+import { safeTerminalLine } from '../text/safe-terminal.ts';
 import type { Progress } from './progress.ts';
 
 /** File-system failures the user can fix (a file in the way, permissions, a full or read-only disk). */
@@ -22,7 +22,7 @@ const USER_FIXABLE = new Set(['EACCES', 'EPERM', 'ENOTDIR', 'EEXIST', 'EISDIR', 
 function fsProblem(err: unknown, path: string, doing: string): unknown {
   const code = (err as NodeJS.ErrnoException | null)?.code;
   if (!code || !USER_FIXABLE.has(code)) return err;
-  return new InputError(`could not ${doing} ${printable(path)} (${code})`, { cause: err, hint: 'nothing already there was changed; choose another folder or fix the permissions' });
+  return new InputError(`could not ${doing} ${safeTerminalLine(path)} (${code})`, { cause: err, hint: 'nothing already there was changed; choose another folder or fix the permissions' });
 }
 
 function exists(path: string): boolean {
@@ -70,7 +70,7 @@ function copyExclusive(from: string, to: string): boolean {
 
 export async function runInit(dirArg: string, progress: Progress, options: { addMissing?: boolean } = {}): Promise<number> {
   const dir = resolve(dirArg);
-  const shown = printable(dir);
+  const shown = safeTerminalLine(dir);
   // 1. A file where the folder should be.
   if (exists(dir) && !statSync(dir).isDirectory()) {
     throw new InputError(`${shown} is a file, not a folder; init makes a workspace folder`, { hint: 'choose a new folder name, e.g. lacuna init my-lab' });
@@ -107,7 +107,7 @@ export async function runInit(dirArg: string, progress: Progress, options: { add
     }
     progress.info(`workspace ready: ${shown} (${wrote} file${wrote === 1 ? '' : 's'} written)`);
     if (kept.length) progress.info(`kept ${kept.length} existing file${kept.length === 1 ? '' : 's'} untouched:\n${kept.map((f) => `  ${f}`).join('\n')}`);
-    progress.info(`next: cd ${printable(dirArg)} && lacuna check && lacuna build`);
+    progress.info(`next: cd ${safeTerminalLine(dirArg)} && lacuna check && lacuna build`);
     return 0;
   } catch (err) {
     throw fsProblem(err, dir, 'write into');

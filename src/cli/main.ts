@@ -13,7 +13,7 @@ import { InputErrors, InputError, causeChain } from '../errors.ts';
 import { parseArgs, flagHelp, flagUsage, UsageError } from './args.ts';
 import { COMMANDS } from './commands.ts';
 import { createProgress } from './progress.ts';
-import { printable } from './printable.ts';
+import { safeTerminalLine } from '../text/safe-terminal.ts';
 import { chooseOut, chooseWorkspace, describeChoice } from './workspace.ts';
 import { TOOL_VERSION } from '../version.ts';
 
@@ -54,7 +54,7 @@ export async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;
   if (!command || command === 'help' || command === '--help' || command === '-h') {
     if (rest[0] !== undefined && !COMMANDS[rest[0]]) {
-      process.stderr.write(`lacuna: no command "${printable(rest[0])}"\n\n${help()}`);
+      process.stderr.write(`lacuna: no command "${safeTerminalLine(rest[0])}"\n\n${help()}`);
       return 2;
     }
     process.stdout.write(help(rest[0]));
@@ -66,7 +66,7 @@ export async function main(argv: string[]): Promise<number> {
   }
   const spec = Object.hasOwn(COMMANDS, command) ? COMMANDS[command] : undefined;
   if (!spec) {
-    process.stderr.write(`lacuna: unknown command "${printable(command)}"\n\n${help()}`);
+    process.stderr.write(`lacuna: unknown command "${safeTerminalLine(command)}"\n\n${help()}`);
     return 2;
   }
   if (rest.includes('--help') || rest.includes('-h')) {

@@ -3,8 +3,11 @@
  *
  * On a terminal: one redrawn line per step with a bar, the rate and the time left.
  * Not a terminal (CI, a log file): a plain line when a step starts and when it ends, and at
- * most one line every 10 s in between. `quiet`: nothing at all.
+ * most one line every 10 s in between. `quiet`: nothing at all. Labels and lines may hold user
+ * text (file names): control characters are made visible (text/safe-terminal.ts).
  */
+import { safeTerminal, safeTerminalLine } from '../text/safe-terminal.ts';
+
 export interface Progress {
   /** Start a step of `total` units (bytes, datasets, pages); returns a handle to advance it. */
   step(label: string, total: number, unit?: 'bytes' | 'items'): ProgressStep;
@@ -27,9 +30,10 @@ export function createProgress(options: { quiet?: boolean; stream?: Stream; now?
 
   return {
     info(line) {
-      if (!quiet) stream.write(`${line}\n`);
+      if (!quiet) stream.write(`${safeTerminal(line)}\n`);
     },
-    step(label, total, unit = 'items') {
+    step(rawLabel, total, unit = 'items') {
+      const label = safeTerminalLine(rawLabel);
       const start = now();
       let doneUnits = 0;
       let lastDraw = 0;
@@ -60,7 +64,7 @@ export function createProgress(options: { quiet?: boolean; stream?: Stream; now?
         done(summary) {
           doneUnits = Math.max(doneUnits, total);
           if (tty) draw(true);
-          else stream.write(`${label}: done in ${fmtSecs((now() - start) / 1000)}${summary ? ` (${summary})` : ''}\n`);
+          else stream.write(`${label}: done in ${fmtSecs((now() - start) / 1000)}${summary ? ` (${safeTerminalLine(summary)})` : ''}\n`);
         },
       };
     },

@@ -8,7 +8,7 @@ import type { IncomingMessage, ServerResponse } from 'node:http';
 import { existsSync, realpathSync, statSync } from 'node:fs';
 import { open } from 'node:fs/promises';
 import { pipeline } from 'node:stream';
-import { printable } from './printable.ts';
+import { safeTerminalLine } from '../text/safe-terminal.ts';
 import { extname, join, relative, resolve, sep } from 'node:path';
 
 const TYPES: Record<string, string> = {
@@ -90,7 +90,7 @@ export async function answer(root: string, req: IncomingMessage, res: ServerResp
     if (!st.isFile()) throw Object.assign(new Error('not a regular file'), { code: 'EISDIR' });
   } catch (err) {
     await handle?.close();
-    log(`could not read ${printable(file)}: ${(err as NodeJS.ErrnoException).code ?? (err as Error).message}`);
+    log(`could not read ${safeTerminalLine(file)}: ${(err as NodeJS.ErrnoException).code ?? (err as Error).message}`);
     return plain(res, 500, 'this file could not be read');
   }
   res.writeHead(200, { 'content-type': TYPES[extname(file)] ?? 'application/octet-stream' });
@@ -101,6 +101,6 @@ export async function answer(root: string, req: IncomingMessage, res: ServerResp
   }
   // pipeline closes the file when the client goes away early, and on a read error ends the response.
   pipeline(handle.createReadStream(), res, (err) => {
-    if (err && (err as NodeJS.ErrnoException).code !== 'ERR_STREAM_PREMATURE_CLOSE') log(`could not read ${printable(file)}: ${(err as NodeJS.ErrnoException).code ?? err.message}`);
+    if (err && (err as NodeJS.ErrnoException).code !== 'ERR_STREAM_PREMATURE_CLOSE') log(`could not read ${safeTerminalLine(file)}: ${(err as NodeJS.ErrnoException).code ?? err.message}`);
   });
 }

@@ -12,7 +12,7 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { InputError } from '../errors.ts';
 import { answer } from './serve-files.ts';
-import { printable } from './printable.ts';
+import { safeTerminalLine } from '../text/safe-terminal.ts';
 
 export { resolveStatic, folderRedirect } from './serve-files.ts';
 
@@ -34,11 +34,11 @@ export async function runServe(out: string, portText: string, log: (line: string
   // The parent is read first, before anyone can be told the server is up and kill npm.
   const parent = process.ppid;
   const port = Number(portText);
-  if (!Number.isInteger(port) || port < 1 || port > 65535) throw new InputError(`--port must be a whole number from 1 to 65535, got "${printable(portText)}"`);
-  if (!existsSync(join(out, 'index.html'))) throw new InputError(`no built site in ${printable(out)}`, { hint: 'run `lacuna build` first, or name the site folder with --out' });
+  if (!Number.isInteger(port) || port < 1 || port > 65535) throw new InputError(`--port must be a whole number from 1 to 65535, got "${safeTerminalLine(portText)}"`);
+  if (!existsSync(join(out, 'index.html'))) throw new InputError(`no built site in ${safeTerminalLine(out)}`, { hint: 'run `lacuna build` first, or name the site folder with --out' });
   const server = createServer((req, res) => {
     answer(out, req, res, log).catch((err: unknown) => {
-      log(`could not answer ${printable(req.url ?? '')}: ${err instanceof Error ? err.message : String(err)}`);
+      log(`could not answer ${safeTerminalLine(req.url ?? '')}: ${err instanceof Error ? err.message : String(err)}`);
       if (!res.headersSent) res.writeHead(500, { 'content-type': 'text/plain; charset=utf-8' }).end('internal error\n');
       else res.destroy();
     });
@@ -49,7 +49,7 @@ export async function runServe(out: string, portText: string, log: (line: string
   });
   server.removeAllListeners('error');
   server.on('error', (err) => log(`server error: ${err.message}`));
-  log(`serving ${printable(out)} at http://127.0.0.1:${port}/ (Ctrl-C to stop)`);
+  log(`serving ${safeTerminalLine(out)} at http://127.0.0.1:${port}/ (Ctrl-C to stop)`);
 
   // Wait for a stop signal, or (under npm) for the parent process to go away.
   let watch: NodeJS.Timeout | undefined;

@@ -9,7 +9,7 @@
 import { statSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { UsageError } from './args.ts';
-import { printable } from './printable.ts';
+import { safeTerminalLine } from '../text/safe-terminal.ts';
 
 export interface Chosen {
   workspace: string;
@@ -41,7 +41,7 @@ export function chooseWorkspace(flag: string | undefined, command: string, cwd =
   if (flag !== undefined) return { workspace: resolve(cwd, flag), found: false };
   const found = findWorkspace(cwd);
   if (found) return { workspace: found, found: true };
-  throw new UsageError(`lacuna ${command}: no workspace found: neither ${printable(cwd)} nor any folder above it holds an audits/ folder`, {
+  throw new UsageError(`lacuna ${command}: no workspace found: neither ${safeTerminalLine(cwd)} nor any folder above it holds an audits/ folder`, {
     hint: `run it inside a workspace, pass ${command === 'serve' ? '--out SITE-DIR or ' : ''}--workspace DIR, or make a new one with \`lacuna init DIR\``,
   });
 }
@@ -54,7 +54,7 @@ export function chooseOut(flag: string | undefined, workspace: string, cwd = pro
 /** The one line saying what a command found by itself (nothing when everything was given). */
 export function describeChoice(chosen: Chosen, out?: { path: string; given: boolean }): string | null {
   const parts: string[] = [];
-  if (chosen.found) parts.push(`workspace ${printable(chosen.workspace)} (found from the current folder)`);
-  if (out && !out.given) parts.push(`output ${printable(out.path)}`);
+  if (chosen.found) parts.push(`workspace ${safeTerminalLine(chosen.workspace)} (found from the current folder)`);
+  if (out && !out.given) parts.push(`output ${safeTerminalLine(out.path)}`);
   return parts.length ? `using ${parts.join(', ')}` : null;
 }

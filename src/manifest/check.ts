@@ -11,6 +11,7 @@
 import { InputError, InputErrors } from '../errors.ts';
 import type { ResolvedDataset, ResolvedManifest } from './types.ts';
 import { findManifests, loadManifest } from './load.ts';
+import { pushAll } from '../util/arrays.ts';
 
 export type InspectDataset = (ds: ResolvedDataset, m: ResolvedManifest) => Promise<{ problems: InputError[] }>;
 
@@ -23,7 +24,7 @@ export interface CheckSummary {
 }
 
 function gather(err: unknown, into: InputError[]): void {
-  if (err instanceof InputErrors) into.push(...err.problems);
+  if (err instanceof InputErrors) pushAll(into, err.problems);
   else if (err instanceof InputError) into.push(err);
   else throw err;
 }
@@ -59,7 +60,7 @@ export async function checkWorkspace(workspaceRoot: string, inspect: InspectData
     for (const ds of m.datasets) {
       datasets++;
       try {
-        problems.push(...(await inspect(ds, m)).problems);
+        pushAll(problems, (await inspect(ds, m)).problems);
       } catch (err) {
         gather(err, problems);
       }

@@ -1,7 +1,7 @@
 /**
  * Loading manifests: from a file to a `ResolvedManifest`.
  *
- * 1. Read the bytes (at most 1 MiB), hash them (SHA-256), decode strict UTF-8.
+ * 1. Read the bytes (at most 1 MiB, by `stat` before reading: read-bounded.ts), hash them (SHA-256), decode strict UTF-8.
  * 2. `parseManifestText`: front matter as data, nothing run (`parse.ts`).
  * 3. `collectManifest`: every field checked against the table, defaults filled (`validate.ts`).
  * 4. For each dataset whose path fields are sound: resolve its files inside the workspace
@@ -9,11 +9,12 @@
  * 5. Every problem of steps 3–4 is thrown together as `InputErrors`.
  */
 import { createHash } from 'node:crypto';
-import { readFile, readdir, realpath, stat } from 'node:fs/promises';
+import { readdir, realpath, stat } from 'node:fs/promises';
 import path from 'node:path';
 import { InputError, InputErrors } from '../errors.ts';
 import type { ResolvedDataset, ResolvedManifest } from './types.ts';
 import { parseManifestText } from './parse.ts';
+import { readManifestBytes } from './read-bounded.ts';
 import { collectManifest } from './validate.ts';
 import { isInside, resolveInsideWorkspace } from './paths.ts';
 import { resolveFormat } from './format.ts';
@@ -38,10 +39,7 @@ export async function loadManifest(file: string, workspaceRoot: string): Promise
   if (!isInside(await realpath(rootAbs), real)) {
     throw new InputError(`manifest leads outside the workspace (to ${real}); allowed: manifests inside the workspace folder`, { file: relFile });
   }
-  const bytes = await readFile(real);
-  if (bytes.length > MAX_MANIFEST_BYTES) {
-    throw new InputError(`manifest is ${bytes.length} bytes; allowed: at most ${MAX_MANIFEST_BYTES} bytes (1 MiB)`, { file: relFile });
-  }
+  const bytes = await readManifestBytes(real, relFile, MAX_MANIFEST_BYTES); // size checked before reading
   const sha256 = createHash('sha256').update(bytes).digest('hex');
   let text: string;
   try {

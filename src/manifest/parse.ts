@@ -9,12 +9,14 @@
  * 4. YAML is read by the js-yaml 3 that gray-matter itself ships, with its CORE schema: no
  *    `!!js/function`, `!!js/regexp`, `!!binary`, timestamps or merge keys exist there, so any
  *    such tag is an "unknown tag" error. Anchors (`&a`), and so aliases (`*a`), are refused too:
- *    a manifest is small data and needs no references.
+ *    a manifest is small data and needs no references. Nesting deeper than 64 levels is refused
+ *    before the parser runs (yaml-depth.ts), since js-yaml recurses once per level.
  */
 import { createRequire } from 'node:module';
 import matter from 'gray-matter';
 import { InputError } from '../errors.ts';
 import { makeLineOf, unclosedFlowAt } from './lines.ts';
+import { checkYamlDepth } from './yaml-depth.ts';
 
 /** The parts of js-yaml 3 used here (it ships no types). */
 interface JsYaml3 {
@@ -84,6 +86,7 @@ export function parseManifestText(text: string, file: string): ParsedManifestTex
   let block = '';
   const yamlEngine = (str: string): unknown => {
     block = str;
+    checkYamlDepth(str, file); // before the parser recurses; `str` starts with the newline that ends line 1
     return loadYaml(str, file);
   };
   const engines = { yaml: yamlEngine, yml: yamlEngine, js: refuse, javascript: refuse, coffee: refuse, coffeescript: refuse, cson: refuse, json: refuse };

@@ -7,6 +7,7 @@
  * lists so the union type, the check and the "allowed: …" text come from one list.
  */
 import type { Adjustment, AuditKind, Axis, CellChoice, DataFormat, DriftChart, ImagingTrace, Layout, NegativesPolicy } from './types.ts';
+import { pushAll } from '../util/arrays.ts';
 
 export const AUDIT_KINDS = ['activity', 'weights'] as const satisfies readonly AuditKind[];
 export const AXES = ['time', 'stimuli'] as const satisfies readonly Axis[];
@@ -235,9 +236,9 @@ export function flattenFields(fields: readonly FieldSpec[] = MANIFEST_FIELDS, pr
   for (const f of fields) {
     const path = prefix + f.name;
     out.push({ path, field: f });
-    if (f.type === 'mapping') out.push(...flattenFields(f.fields, `${path}.`));
-    if (f.type === 'list') out.push(...flattenFields(f.item, `${path}[].`));
-    if (f.type === 'choice' && f.fields) out.push(...flattenFields(f.fields, `${path}.`));
+    if (f.type === 'mapping') pushAll(out, flattenFields(f.fields, `${path}.`));
+    if (f.type === 'list') pushAll(out, flattenFields(f.item, `${path}[].`));
+    if (f.type === 'choice' && f.fields) pushAll(out, flattenFields(f.fields, `${path}.`));
   }
   return out;
 }

@@ -29,6 +29,7 @@ import { InputError } from '../errors.ts';
 import { inputError } from './byte-source.ts';
 import { openNpyActivity, openNpyFile, readNpyTensor } from './npy.ts';
 import { sampleBinner } from './sample-bins.ts';
+import { maxOf, minOf } from '../util/arrays.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
 
 const SCRATCH_BYTES = 8 << 20;
@@ -147,7 +148,7 @@ export async function openImagingFolder(files: string[], relFiles: string[], s: 
     });
     if (units === 0) throw inputError(planes[0].rel, 'imaging.cells', `no ROI is chosen by ${rule}; no units can be formed`, 'set imaging.cells to all, or lower imaging.min_probability');
     // 3.
-    const frames = Math.min(...planes.map((p) => p.frames));
+    const frames = minOf(planes.map((p) => p.frames));
     if (planes.some((p) => p.frames !== frames)) {
       const dropped = planes.filter((p) => p.frames > frames);
       findings.push({
@@ -182,7 +183,7 @@ export async function openImagingFolder(files: string[], relFiles: string[], s: 
         labels.push(planes.length > 1 ? `plane${k}:${r}` : String(r));
       }
     });
-    const maxFrames = Math.max(...planes.map((p) => p.frames));
+    const maxFrames = maxOf(planes.map((p) => p.frames));
     const rowsPerRead = Math.max(1, Math.floor(SCRATCH_BYTES / 8 / maxFrames));
     let scratch: Float64Array | null = null;
     let tmp: Float64Array | null = null;

@@ -23,6 +23,7 @@
  * (a caller's bug); an empty range yields nothing and reads nothing.
  * `afterPass`, when given, runs after the last block of each pass is read and before it is
  * yielded (file-guard.ts: were the files changed underneath?); its error ends the pass.
+ * A dataset of more than MAX_OPEN_FILES files keeps at most one of them open at a time.
  */
 import type { ActivitySource, FileProvenance, Finding, Numeric, UnitBlock } from '../types.ts';
 import { InputError, InternalError } from '../errors.ts';
@@ -33,6 +34,13 @@ import type { ActivityFile } from './types.ts';
 export const DEFAULT_MAX_BLOCK_BYTES = 64 * 1024 * 1024;
 /** Default block limit when every file reads unit ranges contiguously. */
 export const CONTIGUOUS_MAX_BLOCK_BYTES = 8 * 1024 * 1024;
+
+/**
+ * Above this many files a dataset's files are opened one at a time per block (and closed after
+ * each read) instead of all at once per pass: a folder may hold more files than the process may
+ * open (the usual soft limit is 1,024 descriptors, shared with the worker threads).
+ */
+export const MAX_OPEN_FILES = 64;
 
 /** Options of `blocks()`: the contract's block limit plus a range of units. */
 export interface BlockOptions {
@@ -105,22 +113,36 @@ export function joinActivity(
       const per = Math.max(1, Math.min(end - start, Math.floor(maxBytes / (bins * (f64 ? 8 : 4)))));
       const data: Numeric = f64 ? new Float64Array(per * bins) : new Float32Array(per * bins);
       const missing = anyMissing ? new Uint8Array(per * bins) : undefined;
+      // Few files: open each once per pass. More than MAX_OPEN_FILES: open, read and close each
+      // file per block, so the process never holds more than one of this dataset's files open.
+      const bounded = files.length > MAX_OPEN_FILES;
+      const acquire = async (i: number): Promise<ActivityFile> => {
+        if (isReusable(files[i])) return files[i];
+        if (!reopen) throw new InternalError(`${relFiles[i]} cannot be read again after close and no reopen was given`);
+        const f = await reopen(i);
+        if (f.units !== files[i].units || f.bins !== files[i].bins) {
+          await f.close();
+          throw new InputError(`file changed while in use: now ${f.units} units × ${f.bins} bins, was ${files[i].units} × ${files[i].bins}`, { file: relFiles[i], where: 'shape' });
+        }
+        return f;
+      };
       const open: ActivityFile[] = [];
       try {
-        for (let i = 0; i < files.length; i++) {
-          if (isReusable(files[i])) { open.push(files[i]); continue; }
-          if (!reopen) throw new InternalError(`${relFiles[i]} cannot be read again after close and no reopen was given`);
-          const f = await reopen(i);
-          open.push(f);
-          if (f.units !== files[i].units || f.bins !== files[i].bins) {
-            throw new InputError(`file changed while in use: now ${f.units} units × ${f.bins} bins, was ${files[i].units} × ${files[i].bins}`, { file: relFiles[i], where: 'shape' });
-          }
-        }
+        if (!bounded) for (let i = 0; i < files.length; i++) open.push(await acquire(i));
         for (let u = start; u < end; u += per) {
           const count = Math.min(per, end - u);
           if (missing) missing.fill(0);
-          for (let i = 0; i < open.length; i++) {
-            await open[i].readUnits(u, count, data, bins, segments[i].binStart, missing);
+          for (let i = 0; i < files.length; i++) {
+            if (!bounded) {
+              await open[i].readUnits(u, count, data, bins, segments[i].binStart, missing);
+              continue;
+            }
+            const f = await acquire(i);
+            try {
+              await f.readUnits(u, count, data, bins, segments[i].binStart, missing);
+            } finally {
+              await f.close();
+            }
           }
           if (afterPass && u + count >= end) await afterPass();
           const n = count * bins;

@@ -77,7 +77,8 @@ export function npyActivityFile(
 ): ReadableActivityFile {
   const g = activityGeometry(h, opts.layout, opts.relPath, opts.where ?? 'shape');
   const es = h.dtype.size;
-  const scratchBytes = Math.max(es, opts.scratchBytes ?? DEFAULT_SCRATCH_BYTES);
+  // No larger than the data: a folder of many small files reads each through its own scratch.
+  const scratchBytes = Math.max(es, Math.min(opts.scratchBytes ?? DEFAULT_SCRATCH_BYTES, h.count * es));
   let scratch: Uint8Array | null = null;
   const buf = (): Uint8Array => (scratch ??= new Uint8Array(scratchBytes - (scratchBytes % es)));
 
@@ -163,7 +164,10 @@ export function npyActivityFile(
       if (g.unitContiguous) await contiguous(unitStart, count, out, outCols, colOffset);
       else await strided(unitStart, count, out, outCols, colOffset);
     },
-    close: () => src.close(),
+    close: () => {
+      scratch = null; // a folder of many files must not keep one scratch buffer per file
+      return src.close();
+    },
   };
 }
 

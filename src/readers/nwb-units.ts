@@ -29,6 +29,7 @@ import type { Finding, Numeric } from '../types.ts';
 import type { ActivityFile } from './types.ts';
 import { closeQuietly, copyToFloat64, forEachSlice, getDataset, readRange, requireNumeric, rowsOf, SLICE_ELEMENTS } from './nwb-hdf5.ts';
 import { binOf, binsToCover, coveredBins, inRanges, mergeRanges } from './nwb-time.ts';
+import { pushAll } from '../util/arrays.ts';
 
 const MAX_BINS = 2 ** 31 - 1;
 
@@ -71,9 +72,9 @@ function observedRanges(file: H5File, table: string, units: number, binMs: numbe
       const where = `${iv.path}[${r}]`;
       if (!Number.isFinite(s) || !Number.isFinite(e)) throw new InputError(`observation interval [${s}, ${e}] is not finite`, { file: relPath, where });
       if (e < s) throw new InputError(`observation interval ends (${e} s) before it starts (${s} s)`, { file: relPath, where });
-      pairs.push(...coveredBins(s, e, binMs));
+      pushAll(pairs, coveredBins(s, e, binMs));
     }
-    out.push(...mergeRanges(pairs));
+    pushAll(out, mergeRanges(pairs));
     offsets[u + 1] = out.length / 2;
   }
   return { ranges: Float64Array.from(out), offsets };

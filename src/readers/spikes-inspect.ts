@@ -29,7 +29,7 @@ export async function inspectSpikeHeader(path: string, relPath: string, delim: s
     const columns = splitCells(text, delim);
     const lower = columns.map((c) => c.toLowerCase());
     if (!lower.includes('unit') || !lower.includes('time')) {
-      throw inputError(relPath, `row ${line}`, `header must name a 'unit' and a 'time' column; found ${columns.slice(0, 10).map((c) => JSON.stringify(c)).join(', ')}`);
+      throw inputError(relPath, `row ${line}`, `header must name a 'unit' and a 'time' column; found ${columns.slice(0, 10).map((c) => JSON.stringify(c.length > 80 ? `${c.slice(0, 80)}…` : c)).join(', ')}`);
     }
     return { columns, durationS };
   }

@@ -9,6 +9,7 @@ import type { ChartModel } from './site-charts.ts';
 import { isDriftChart } from './site-charts.ts';
 import { describeInterval, formatBytes, formatCount, formatDate, formatInterval, formatLevel, formatMethod, formatNumber, formatValue, measureLabel } from './site-format.ts';
 import { renderMarkdown } from './markdown.ts';
+import { pushAll } from '../util/arrays.ts';
 
 export interface SummaryRow {
   dataset: string;
@@ -114,7 +115,7 @@ export function flattenParameters(params: Record<string, unknown>, prefix = ''):
   const out: { name: string; value: string }[] = [];
   for (const [k, v] of Object.entries(params)) {
     const name = prefix ? `${prefix}.${k}` : k;
-    if (v !== null && typeof v === 'object' && !Array.isArray(v)) out.push(...flattenParameters(v as Record<string, unknown>, name));
+    if (v !== null && typeof v === 'object' && !Array.isArray(v)) pushAll(out, flattenParameters(v as Record<string, unknown>, name));
     else out.push({ name, value: formatValue(v) });
   }
   return out;

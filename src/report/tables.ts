@@ -1,6 +1,7 @@
 /**
  * The summary table of an audit — one row per dataset × measure — and its downloads:
- * CSV (RFC 4180), Markdown (GitHub table syntax) and LaTeX (booktabs).
+ * CSV (RFC 4180; user text neutralised against spreadsheet formulas), Markdown (GitHub table
+ * syntax; HTML in user text escaped) and LaTeX (booktabs).
  *
  * Numbers are written to a stated number of significant digits (CSV_DIGITS for CSV,
  * TABLE_DIGITS for Markdown and LaTeX, both overridable), trailing zeros dropped; counts
@@ -76,17 +77,42 @@ export function csvField(s: string): string {
   return /[",\r\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
 }
 
+/**
+ * A text cell of a CSV export made inert for spreadsheets (formula or "CSV injection"): a cell
+ * that starts with `=`, `+`, `-`, `@`, a tab or a carriage return is prefixed with a single
+ * quote, which spreadsheets show as text, as the OWASP "CSV Injection" page advises; then quoted
+ * as RFC 4180 requires. Only for text taken from users (ids, months, groups, names): numbers
+ * this program formats are written as numbers, so a negative estimate stays `-0.25`.
+ */
+export function csvTextField(s: string): string {
+  return csvField(/^[=+\-@\t\r]/.test(s) ? `'${s}` : s);
+}
+
 /** RFC 4180 CSV: a header line, CRLF line ends (also after the last record), missing = empty field. */
 export function toCsv(rows: SummaryRow[], options: { digits?: number } = {}): string {
   const digits = options.digits ?? CSV_DIGITS;
   const lines = [COLUMNS.join(',')];
-  for (const r of rows) lines.push(COLUMNS.map((c) => csvField(cellText(r, c, digits) ?? '')).join(','));
+  const field = (r: SummaryRow, c: keyof SummaryRow) => {
+    const t = cellText(r, c, digits) ?? '';
+    return NUMERIC.has(c) ? csvField(t) : csvTextField(t);
+  };
+  for (const r of rows) lines.push(COLUMNS.map((c) => field(r, c)).join(','));
   return lines.join('\r\n') + '\r\n';
 }
 
-/** A Markdown table cell: backslashes and pipes escaped, line breaks turned into spaces. */
+/**
+ * A Markdown table cell: `&`, `<` and `>` written as HTML entities (Markdown passes raw HTML
+ * through, so a user's `<script>` or `<img onerror=…>` would reach a rendered page), backslashes
+ * and pipes escaped, line breaks turned into spaces.
+ */
 export function markdownCell(s: string): string {
-  return s.replace(/\\/g, '\\\\').replace(/\|/g, '\\|').replace(/\r\n|\r|\n/g, ' ');
+  return s
+    .replace(/&/g, '&amp;')
+    .replace(/</g, '&lt;')
+    .replace(/>/g, '&gt;')
+    .replace(/\\/g, '\\\\')
+    .replace(/\|/g, '\\|')
+    .replace(/\r\n|\r|\n/g, ' ');
 }
 
 /** A GitHub-style Markdown table; numeric columns right-aligned. */

@@ -21,8 +21,13 @@
  * autocorrelation at lag 1…K_n: iid-like data) or ĝ ≤ 0 gives 1.
  *
  * NaN or ±Infinity in `x` is a `RangeError` (remove undefined items first); n < 4 gives 1.
- * Zeros and negative values are ordinary values. Cost: O(n·√n) for the autocovariances.
+ * Zeros and negative values are ordinary values. Cost: O(n·(m̂ + K_n)) when the lags the rule
+ * needs stay below DIRECT_LAGS (direct sums, the same sums in the same order as before), else
+ * O(n log n) time and 32·n bytes or so for the remaining lags by FFT (autocovariance.ts); never
+ * the O(n·√n) of direct sums up to m_max.
  */
+
+import { DIRECT_LAGS, autocovariancesDirect, autocovariancesFft } from './autocovariance.ts';
 
 /** Everything the rule computed, for reports and tests. */
 export interface BlockLengthDetails {
@@ -73,14 +78,27 @@ export function politisWhiteDetails(x: Float64Array): BlockLengthDetails {
   mean /= n;
   const Kn = Math.max(5, Math.ceil(Math.sqrt(Math.log10(n))));
   const mMax = Math.min(n - 1, Math.ceil(Math.sqrt(n)) + Kn);
-  const R = new Float64Array(mMax + 1);
   const e = new Float64Array(n);
   for (let i = 0; i < n; i++) e[i] = x[i] - mean;
-  for (let k = 0; k <= mMax; k++) {
-    let s = 0;
-    for (let t = 0; t + k < n; t++) s += e[t] * e[t + k];
-    R[k] = s / n;
-  }
+  // Lags by direct sums as the search reaches them, up to L0; past L0, every lag up to m_max by
+  // FFT at once (the direct values already computed are kept).
+  const L0 = Math.min(mMax, DIRECT_LAGS - 1);
+  let R: Float64Array = new Float64Array(mMax + 1);
+  let computed = 0;
+  autocovariancesDirect(e, 0, 0, R);
+  const lag = (k: number): number => {
+    if (k <= computed) return R[k];
+    if (k <= L0) {
+      autocovariancesDirect(e, computed + 1, k, R);
+      computed = k;
+    } else {
+      const all = autocovariancesFft(e, mMax);
+      all.set(R.subarray(0, computed + 1));
+      R = all;
+      computed = mMax;
+    }
+    return R[k];
+  };
   if (!(R[0] > 0)) return result(NaN, 0, 0, 0, 0);
 
   // m̂: smallest m with |ρ̂(m+1)|, …, |ρ̂(m+Kn)| all below the threshold.
@@ -88,7 +106,7 @@ export function politisWhiteDetails(x: Float64Array): BlockLengthDetails {
   let mHat = -1;
   let run = 0;
   for (let k = 1; k <= mMax; k++) {
-    run = Math.abs(R[k] / R[0]) < threshold ? run + 1 : 0;
+    run = Math.abs(lag(k) / R[0]) < threshold ? run + 1 : 0;
     if (run === Kn) {
       mHat = k - Kn;
       break;
@@ -101,8 +119,9 @@ export function politisWhiteDetails(x: Float64Array): BlockLengthDetails {
   let g = R[0];
   for (let k = 1; k <= M; k++) {
     const w = flatTop(k / M);
-    G += 2 * w * k * R[k];
-    g += 2 * w * R[k];
+    const r = lag(k);
+    G += 2 * w * k * r;
+    g += 2 * w * r;
   }
   if (!(g > 0)) return result(NaN, M, mHat, G, g);
   const raw = Math.cbrt((3 * n * G * G) / (2 * g * g));
