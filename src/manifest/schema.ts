@@ -147,7 +147,7 @@ export const MANIFEST_FIELDS: readonly FieldSpec[] = [
   { name: 'bootstrap', type: 'mapping', nullable: false, fields: BOOTSTRAP_FIELDS, description: 'Bootstrap interval settings.' },
   {
     name: 'negatives', type: 'enum', values: NEGATIVES_POLICIES, default: 'keep',
-    description: 'Values below zero, for measures that assume non-negative responses: keep, rectify (set to 0), shift (subtract the minimum) or refuse.',
+    description: 'Values below zero, for measures that assume non-negative responses (sparseness, activity ratio, Hoyer, Gini; density is always of the raw values): keep, rectify (set to 0), shift (subtract the minimum) or refuse.',
   },
   { name: 'events', type: 'mapping', nullable: true, fields: EVENT_FIELDS, defaultText: 'none (off)', description: 'Event detection for imaging traces; absent = off.' },
   { name: 'drift', type: 'mapping', nullable: false, fields: DRIFT_FIELDS, description: 'Drift tracking across months.' },

@@ -118,7 +118,10 @@ export interface BinAccumulators {
   partialDefined: Int32Array;
   sum: Float64Array;
   sumSq: Float64Array;
+  /** Raw |x| > tol, every unit (density). */
   active: Int32Array;
+  /** Defined cells of refused units (density's denominator with the others). */
+  refusedDefined: Int32Array;
 }
 
 export interface RowMoments {

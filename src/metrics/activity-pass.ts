@@ -16,6 +16,8 @@
  *      per-bin Σy, Σy² and active count, in unit order                      (activity-pass-bins.ts)
  *   3. `finishActivityPass(state | states[])`: merge disjoint unit ranges, then per-bin
  *      population sparseness and density, duplicates, totals               (activity-pass-finish.ts)
+ * Density is of the raw values against the zero tolerance under every negatives policy (refused
+ * units included); the policy applies to the measures that assume non-negative responses.
  *
  * Per unit (NaN = undefined), with n defined cells, mean x̄ and m_r = Σ(x − x̄)^r / n:
  * - mean x̄ (raw); skewness g1 = m3 / m2^{3/2}; excess kurtosis g2 = m4 / m2² − 3 (biased
@@ -65,7 +67,7 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
   const evScratch = new Float64Array(opts.events ? bins : 0);
   const evOut: RowEvents = { median: NaN, robustSd: NaN, count: -1 };
   const hash = new Uint32Array(2);
-  const acc = { partialDefined: st.binPartialDefined, sum: st.binSum, sumSq: st.binSumSq, active: st.binActive };
+  const acc = { partialDefined: st.binPartialDefined, sum: st.binSum, sumSq: st.binSumSq, active: st.binActive, refusedDefined: st.binRefusedDefined };
   const tol = opts.zeroTolerance;
   const policy = opts.negatives;
   let rows = newBlockRows(64);
