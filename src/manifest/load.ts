@@ -61,18 +61,20 @@ export async function loadManifest(file: string, workspaceRoot: string): Promise
     try {
       const r = await resolveInsideWorkspace(rootAbs, manifestDir, d.path, { file: relFile, where: `${at}.path`, pattern: d.files, lineOf });
       const format = resolveFormat(d.format, r.relFiles, { file: relFile, where: `${at}.format`, line: lineOf(`${at}.format`) ?? lineOf(`${at}.path`) });
-      const wrongFor = (field: 'member' | 'series', needs: string) =>
+      const wrongFor = (field: 'member' | 'series' | 'recording_end_s', needs: string) =>
         problems.push(new InputError(`found ${field}: ${JSON.stringify(d[field])} for a ${format} dataset; allowed: ${field} only with format ${needs}`, {
           file: relFile, where: `${at}.${field}`, line: lineOf(`${at}.${field}`),
         }));
       if (d.member !== null && format !== 'npz') wrongFor('member', 'npz');
       if (d.series !== null && format !== 'nwb') wrongFor('series', 'nwb');
+      if ((d.recording_end_s ?? null) !== null && format !== 'nwb') wrongFor('recording_end_s', 'nwb');
       if (value.kind === 'weights' && (format === 'spikes' || format === 'nwb')) {
         problems.push(new InputError(`found ${format} files with kind weights; allowed: npy, npz, csv, tsv, safetensors`, { file: relFile, where: `${at}.path`, line: lineOf(`${at}.path`) }));
       }
       datasets.push({
         id: d.id, path: d.path, files: r.files, relFiles: r.relFiles, format,
         month: d.month, group: d.group, layout: d.layout, series: d.series, member: d.member,
+        ...((d.recording_end_s ?? null) !== null ? { recording_end_s: d.recording_end_s } : {}),
       });
     } catch (err) {
       if (!(err instanceof InputError)) throw err;

@@ -134,6 +134,10 @@ const DATASET_FIELDS: readonly FieldSpec[] = [
   },
   { name: 'series', type: 'text', rule: 'name', default: null, description: 'NWB: path of the table or series to read, when the file holds several.' },
   { name: 'member', type: 'text', rule: 'name', default: null, defaultText: 'the only member', description: 'NPZ: member to read.' },
+  {
+    name: 'recording_end_s', type: 'number', min: 0, minExclusive: true, defaultText: 'as the file states (epochs, trials, obs_intervals), else the last spike',
+    description: "NWB units tables: when each file's recording ended, in seconds; the matrix ends there and later spikes are left out and counted.",
+  },
 ];
 
 /** Every manifest field, in the order of the reference table. */

@@ -54,7 +54,7 @@ export async function openActivityFile(path: string, relPath: string, ds: Resolv
     case 'spikes': return inMemory(await openSpikeTable(path, relPath, delimiterFor(ds.format, relPath), ctx.binMs));
     case 'nwb': {
       const { openNwbActivity } = await import('./nwb.ts');
-      return openNwbActivity(path, { binMs: ctx.binMs, series: ds.series, relPath });
+      return openNwbActivity(path, { binMs: ctx.binMs, series: ds.series, relPath, recordingEndS: ds.recording_end_s ?? null });
     }
     case 'safetensors':
       throw inputError(relPath, 'format', 'safetensors files hold weights, not activity', 'use kind: weights, or store activity as npy, npz, csv, tsv, spikes or nwb');

@@ -67,13 +67,16 @@ function checkBinMs(binMs: number, relPath: string): void {
  * of the samples in each bin, in the series' unit after `conversion`/`offset`. Cost: one pass
  * over spike times or timestamps at open; data are read per `readUnits` call in 4 MiB slices.
  */
-export async function openNwbActivity(path: string, opts: { binMs: number; series: string | null; relPath: string }): Promise<ActivityFile> {
+export async function openNwbActivity(path: string, opts: { binMs: number; series: string | null; relPath: string; recordingEndS?: number | null }): Promise<ActivityFile> {
   checkBinMs(opts.binMs, opts.relPath);
   const file = await openHdf5(path, opts.relPath);
   try {
     const c = choose(file, opts.relPath, opts.series);
     const o = { path, relPath: opts.relPath, binMs: opts.binMs };
-    return c.kind === 'units' ? openUnitsTable(file, c.path, o) : openTimeSeries(file, c.path, c.neurodataType, o);
+    if (c.kind !== 'units' && (opts.recordingEndS ?? null) !== null) {
+      throw new InputError(`recording_end_s is set, but ${c.path} is a time series, whose samples say when it ends`, { file: opts.relPath, where: 'recording_end_s', hint: 'remove recording_end_s, or choose a units table with series' });
+    }
+    return c.kind === 'units' ? openUnitsTable(file, c.path, { ...o, recordingEndS: opts.recordingEndS ?? null }) : openTimeSeries(file, c.path, c.neurodataType, o);
   } catch (err) {
     closeQuietly(file);
     throw err;
