@@ -171,7 +171,7 @@ async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind:
     }
     case 'spikes': {
       if (kind === 'weights') throw inputError(rel, 'format', "format 'spikes' holds activity, not weights");
-      await inspectSpikeHeader(path, rel, delimiterFor(ds.format, rel));
+      await inspectSpikeHeader(path, rel, delimiterFor(ds.format, rel), binMs);
       return { path: rel, format: 'spikes', shape: null, dtype: null, bytes };
     }
     case 'safetensors': {

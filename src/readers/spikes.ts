@@ -20,9 +20,9 @@ import type { Finding } from '../types.ts';
 import { inputError } from './byte-source.ts';
 import { cellNumber, splitCells } from './table-text.ts';
 import { textLines } from './text-lines.ts';
-import { durationComment } from './spikes-inspect.ts';
+import { durationBins, durationComment } from './spikes-inspect.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
-import { binOf as binOfQuotient, binsToCover, EDGE_TOLERANCE } from './nwb-time.ts';
+import { binOf as binOfQuotient, EDGE_TOLERANCE } from './nwb-time.ts';
 
 const MAX_BINS = 2 ** 31 - 1;
 
@@ -72,8 +72,7 @@ export async function openSpikeTable(path: string, relPath: string, delim: strin
       const d = unitCol < 0 ? durationComment(text, relPath, line) : null;
       if (d !== null) {
         duration = d;
-        nbinsFixed = binsToCover((d * 1000) / binMs);
-        if (nbinsFixed > MAX_BINS) throw inputError(relPath, `row ${line}`, `duration_s ${d} at ${binMs} ms makes more than ${MAX_BINS} bins`);
+        nbinsFixed = durationBins(d, binMs, relPath, line);
       }
       continue;
     }

@@ -3,7 +3,8 @@
  * same message, and each hint is printed once. Cases: an NWB series sampled at 20 Hz (starting_time
  * + rate, written by h5py at test time) binned at 10 ms; the reference software's
  * RoiResponseSeries with timestamps (../shared/data/nwb/roi-response-series.nwb, 10 Hz per its
- * README) binned at 50 ms; recording_end_s set for a time series. Runs the command as a user
+ * README) binned at 50 ms; recording_end_s set for a time series; a spike table whose
+ * `# duration_s` makes too many bins. Runs the command as a user
  * does (child processes of bin/lacuna.mjs).
  */
 import { spawnSync } from 'node:child_process';
@@ -24,13 +25,13 @@ afterAll(() => {
 });
 const run = (...args: string[]) => spawnSync(process.execPath, [BIN, ...args], { encoding: 'utf8', timeout: 180_000, env: { ...process.env, NO_COLOR: '1' } });
 
-function workspace(file: string, write: (path: string) => void, front: string): string {
+function workspace(file: string, write: (path: string) => void, front: string, entry = ''): string {
   const ws = mkdtempSync(join(tmpdir(), 'lacuna-checkbuild-'));
   made.push(ws);
   mkdirSync(join(ws, 'audits'));
   mkdirSync(join(ws, 'data'));
   write(join(ws, 'data', file));
-  writeFileSync(join(ws, 'audits', 'a.md'), `---\naudit: a\ntitle: A\n${front}\ndatasets:\n  - { id: d, path: ../data/${file} }\n---\n`);
+  writeFileSync(join(ws, 'audits', 'a.md'), `---\naudit: a\ntitle: A\n${front}\ndatasets:\n  - { id: d, path: ../data/${file}${entry} }\n---\n`);
   return ws;
 }
 
@@ -68,6 +69,11 @@ with h5py.File(sys.argv[1], 'w') as f:
   it.skipIf(!existsSync(ROI))('bin_ms finer than a series with timestamps (the reference software\'s file, 10 Hz, bin_ms 50)', () => {
     const ws = workspace('roi.nwb', (path) => copyFileSync(ROI, path), 'bin_ms: 50');
     expectSameRefusal(ws, 'set bin_ms to 100 or a multiple of it');
+  });
+
+  it('a spike table whose stated duration makes more than 2^31 − 1 bins', () => {
+    const ws = workspace('s.csv', (path) => writeFileSync(path, '# duration_s: 3000000\nunit,time\na,0.5\n'), 'bin_ms: 1', ', format: spikes');
+    expectSameRefusal(ws, 'duration_s 3000000 at 1 ms makes more than 2147483647 bins');
   });
 
   it.skipIf(!existsSync(ROI))('recording_end_s for a time series', () => {
