@@ -48,6 +48,17 @@ function formatInputMessage(message: string, d: InputErrorDetails): string {
   return d.hint ? `${head} (${safeTerminal(d.hint)})` : head;
 }
 
+/**
+ * An InputError whose `message` is already formatted (place and hint included), e.g. rebuilt
+ * from another thread, or a wrapper whose cause already shows the hint: the hint is kept as a
+ * property and not added to the message again, so it is printed once.
+ */
+export function inputErrorWithHint(message: string, cause: unknown, hint: string | undefined): InputError {
+  const e = new InputError(message, cause === undefined ? {} : { cause });
+  if (hint !== undefined) Object.defineProperty(e, 'hint', { value: hint, enumerable: true });
+  return e;
+}
+
 /** Several input problems found together (validation collects every problem, not only the first). */
 export class InputErrors extends Error {
   readonly problems: InputError[];

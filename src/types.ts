@@ -228,6 +228,8 @@ export interface DriftPoint {
 export interface DriftSeries {
   measure: MeasureName;
   group: string | null;
+  /** Weights audits: the layer (matched by name across months) this series follows; absent = whole datasets. */
+  layer?: string;
   points: DriftPoint[];
   baselineMonths: string[];
   baseline: { mean: number; sd: number } | null;

@@ -108,13 +108,13 @@ export async function activityResult(
     population_sparseness: { plan: overBins, stat: { kind: 'mean', values: r.bin.populationSparseness }, summary: ACTIVITY_SUMMARIES.population_sparseness },
     lifetime_sparseness: { plan: overUnits, stat: { kind: 'mean', values: u.lifetimeSparseness }, summary: ACTIVITY_SUMMARIES.lifetime_sparseness },
     kurtosis: { plan: overUnits, stat: { kind: 'median', values: u.kurtosis }, summary: ACTIVITY_SUMMARIES.kurtosis },
-    density: { plan: overBins, stat: { kind: 'ratio', numerator: toF64(r.bin.active), denominator: toF64(r.bin.defined) }, summary: ACTIVITY_SUMMARIES.density },
+    density: { plan: overBins, stat: { kind: 'ratio', numerator: toF64(r.bin.active), denominator: toF64(r.bin.densityDefined), elements: source.units * source.bins }, summary: ACTIVITY_SUMMARIES.density },
     hoyer: { plan: overUnits, stat: { kind: 'mean', values: u.hoyer }, summary: ACTIVITY_SUMMARIES.hoyer },
     gini: { plan: overUnits, stat: { kind: 'mean', values: u.gini }, summary: ACTIVITY_SUMMARIES.gini },
     activity_ratio: { plan: overUnits, stat: { kind: 'mean', values: u.activityRatio }, summary: ACTIVITY_SUMMARIES.activity_ratio },
     ...(e
       ? {
-          event_density: { plan: overBins, stat: { kind: 'ratio', numerator: toF64(e.binEvents), denominator: toF64(e.binDefined) }, summary: `fraction of defined elements that are events (k = ${e.k} robust SDs)` },
+          event_density: { plan: overBins, stat: { kind: 'ratio', numerator: toF64(e.binEvents), denominator: toF64(e.binDefined), elements: source.units * source.bins }, summary: `fraction of defined elements that are events (k = ${e.k} robust SDs)` },
           event_population_sparseness: { plan: overBins, stat: { kind: 'mean', values: e.binPopulationSparseness }, summary: "mean over defined bins of each bin's Vinje–Gallant sparseness of the binary event vector" },
         }
       : {}),

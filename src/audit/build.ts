@@ -268,7 +268,7 @@ async function buildWithPool(
       continue;
     }
     const version = nextVersionName(versions);
-    const drift = m.kind === 'activity' ? buildDrift(datasets, m.drift, { level: m.bootstrap.level, seed: m.bootstrap.seed, resamples: m.bootstrap.resamples }) : null;
+    const drift = buildDrift(datasets, m.drift, { level: m.bootstrap.level, seed: m.bootstrap.seed, resamples: m.bootstrap.resamples });
     const result: AuditResult = {
       audit: m.audit,
       title: m.title,

@@ -15,7 +15,7 @@ import { TOOL_VERSION } from '../version.ts';
 import { activityResult, computeActivity, runActivityPass, sourceMeta } from './activity.ts';
 import { computeWeights } from './weights.ts';
 import { datasetCacheKey, readCachedDataset, writeCachedDataset } from './cache.ts';
-import { InputError, InternalError } from '../errors.ts';
+import { InputError, inputErrorWithHint, InternalError } from '../errors.ts';
 
 /** The manifest settings that change a dataset's numbers (and so its cache key). */
 export function datasetParameters(m: ResolvedManifest): Record<string, unknown> {
@@ -47,7 +47,8 @@ export interface DatasetJob {
 
 /** Name the dataset in a reader's error, keeping its cause. */
 function wrap(err: unknown, ds: ResolvedDataset, m: ResolvedManifest): unknown {
-  if (err instanceof InputError) return new InputError(`dataset "${ds.id}" of ${m.relFile} could not be measured`, { cause: err, hint: err.hint });
+  // The cause's message shows its hint; the wrapper keeps it as a property only, so it is printed once.
+  if (err instanceof InputError) return inputErrorWithHint(`dataset "${ds.id}" of ${m.relFile} could not be measured`, err, err.hint);
   return err;
 }
 

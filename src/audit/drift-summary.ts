@@ -10,7 +10,7 @@ const ALPHA = 0.05;
 const ADJ = { holm: 'Holm', bh: 'Benjamini–Hochberg', none: 'no' } as const;
 
 function label(s: DriftSeries): string {
-  return `${s.measure.replace(/_/g, ' ')}${s.group !== null ? ` (${s.group})` : ''}`;
+  return `${s.measure.replace(/_/g, ' ')}${s.layer ? ` of layer ${s.layer}` : ''}${s.group !== null ? ` (${s.group})` : ''}`;
 }
 
 function cap(s: string): string {

@@ -27,6 +27,9 @@
  *        above H = cusum_h·σ
  *   5. multiple testing over all Mann–Kendall tests of the audit: Holm, BH or none
  *   6. group differences per month (drift-groups.ts)
+ *   Weights audits get the same series over whole datasets, and one more per layer and measure
+ *   where layers match by name across months (drift-layers.ts); with no sampling interval, σ is
+ *   the baseline SD alone (step 4) and the summary says so.
  *   7. summary paragraph (drift-summary.ts)
  *
  * Months are 'YYYY-MM' (the manifest enforces it); any other label falls back to its rank.
@@ -43,6 +46,7 @@ import { theilSen } from '../stats/theil-sen.ts';
 import { groupDifferences, type GroupCell } from './drift-groups.ts';
 import { poolCell, POOLING_TEXT, type PooledPoint } from './drift-pooling.ts';
 import { driftSummary } from './drift-summary.ts';
+import { layerDatasets, WEIGHTS_SIGMA_TEXT } from './drift-layers.ts';
 
 export interface DriftOptions {
   level: number;
@@ -83,17 +87,24 @@ export function buildDrift(datasets: DatasetResult[], settings: DriftSettings, o
 
   const series: DriftSeries[] = [];
   const cells: GroupCell[] = [];
+  const perLayer = layerDatasets(dated);
   for (const measure of measures) {
-    for (const group of groups) {
-      const points: { month: string; pooled: PooledPoint }[] = [];
-      for (const month of months) {
-        const cell = dated.filter((d) => d.month === month && (!grouped || d.group === group) && d.measures[measure] !== undefined);
-        if (cell.length === 0) continue;
-        const pooled = poolCell(cell, measure, options.level);
-        points.push({ month, pooled });
-        if (group !== null) cells.push({ measure, month, group, point: pooled, datasets: cell });
+    for (const layer of [null, ...perLayer.layers]) {
+      const pool = layer === null ? dated : perLayer.datasets.filter((d) => d.layer === layer);
+      for (const group of groups) {
+        const points: { month: string; pooled: PooledPoint }[] = [];
+        for (const month of months) {
+          const cell = pool.filter((d) => d.month === month && (!grouped || d.group === group) && d.measures[measure] !== undefined);
+          if (cell.length === 0) continue;
+          const pooled = poolCell(cell, measure, options.level);
+          points.push({ month, pooled });
+          if (group !== null && layer === null) cells.push({ measure, month, group, point: pooled, datasets: cell });
+        }
+        if (points.length === 0) continue;
+        const s = buildSeries(measure, group, points, tOf, settings, options.level);
+        if (layer !== null) s.layer = layer;
+        series.push(s);
       }
-      if (points.length > 0) series.push(buildSeries(measure, group, points, tOf, settings, options.level));
     }
   }
 
@@ -115,6 +126,7 @@ export function buildDrift(datasets: DatasetResult[], settings: DriftSettings, o
     summary: '',
   };
   result.summary = driftSummary(result, { undated: datasets.length - dated.length, baselineMonths: settings.baseline_months });
+  if (dated.length > 0 && dated.every((d) => d.kind === 'weights')) result.summary += ` ${WEIGHTS_SIGMA_TEXT}`;
   return result;
 }
 

@@ -11,7 +11,7 @@
  * with that work. This thread as a lane needs no start-up at all.
  */
 import { Worker } from 'node:worker_threads';
-import { InputError, InternalError } from '../errors.ts';
+import { inputErrorWithHint, InternalError } from '../errors.ts';
 import type { DatasetResult, MeasureResult } from '../types.ts';
 import { summarise, type SummariseJob } from './summarise.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
@@ -85,7 +85,7 @@ export function createPool(workers: number, options: { mainLane: boolean }): Poo
               return feed();
             }
             const cause = msg.chain.slice(1).reduceRight<Error | undefined>((c, m) => new Error(m, c ? { cause: c } : undefined), undefined);
-            finish(() => reject(msg.input ? new InputError(msg.message, { cause, hint: msg.hint }) : new InternalError(`worker failed: ${msg.message}`, cause)));
+            finish(() => reject(msg.input ? inputErrorWithHint(msg.message, cause, msg.hint) /* message already holds the hint */ : new InternalError(`worker failed: ${msg.message}`, cause)));
           };
           const onError = (err: Error) => finish(() => reject(new InternalError('worker thread crashed', err)));
           const onExit = (code: number) => finish(() => reject(new InternalError(`worker thread exited with code ${code}`)));

@@ -9,6 +9,11 @@
  *    consecutive bins (Künsch 1989; block length by Politis & White 2004/2009 unless set);
  *    with `axis: stimuli`, stimuli are resampled independently.
  * NaN marks an undefined item (e.g. an all-zero bin): it is left out and counted in `excluded`.
+ *
+ * `n` and `excluded` count what the estimate is over: for a mean or median, the per-item values
+ * (units or bins) that are defined and those that are not; for a ratio of per-bin sums
+ * (density), the elements in the denominators and the other `elements` of the matrix (NaN,
+ * ±Infinity, missing cells), while the interval still resamples bins.
  */
 import { bootstrapInterval, type BootstrapStatistic } from '../stats/bootstrap.ts';
 import { quantileSorted } from '../stats/quantile.ts';
@@ -50,7 +55,10 @@ function resamplingFor(plan: IntervalPlan): { resampling: 'iid' | 'moving-block'
  * Summarise per-item values with an interval.
  * `statistic`: 'mean' or 'median' of the defined items, or a ratio of per-item sums.
  */
-export type SummaryStat = { kind: 'mean' | 'median'; values: Float64Array } | { kind: 'ratio'; numerator: Float64Array; denominator: Float64Array };
+export type SummaryStat =
+  | { kind: 'mean' | 'median'; values: Float64Array }
+  /** `elements`: every element the ratio could be over (units × bins); those not in a denominator are `excluded`. */
+  | { kind: 'ratio'; numerator: Float64Array; denominator: Float64Array; elements: number };
 
 /** One `summarise` call as plain values, so it can run on any lane of the pool. */
 export interface SummariseJob {
@@ -72,8 +80,14 @@ export function summarise(plan: IntervalPlan, stat: SummaryStat, summary: string
   } else {
     for (let i = 0; i < items.length; i++) if (items[i] === items[i]) defined++;
   }
-  const excluded = items.length - defined;
-  const base: MeasureResult = { estimate: null, interval: null, level: null, method: null, n: defined, excluded, summary };
+  let n = defined;
+  let excluded = items.length - defined;
+  if (stat.kind === 'ratio') {
+    n = 0;
+    for (let i = 0; i < items.length; i++) if (stat.denominator[i] > 0) n += stat.denominator[i];
+    excluded = stat.elements - n;
+  }
+  const base: MeasureResult = { estimate: null, interval: null, level: null, method: null, n, excluded, summary };
   if (defined === 0) return { ...base, note: 'undefined: no item had a defined value' };
 
   let estimate: number;

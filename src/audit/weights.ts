@@ -5,7 +5,9 @@
  *
  * Per layer: density (|w| > zero tolerance), Hoyer, Gini, excess kurtosis g2, and for square
  * 2-D layers the graph density without self-loops (entry [i][j] = connection i → j) with in-
- * and out-degrees; density as a function of a magnitude threshold.
+ * and out-degrees; density as a function of a magnitude threshold. A non-finite weight is left
+ * out of every measure and counted; in graph density it is neither an edge nor a non-edge, so it
+ * leaves the possible pairs (and the degrees) instead of dropping the layer.
  */
 import {
   scanValues,
@@ -55,24 +57,28 @@ export async function computeWeights(
   const parts: Numeric[] = [];
   let edges = 0;
   let possible = 0;
+  let omittedPairs = 0;
   let dropped = 0;
 
   for await (const t of source.tensors()) {
     onBytes(t.data.byteLength);
     const { values, dropped: d } = finiteOnly(t.data);
     dropped += d;
+    const square = t.shape.length === 2 && t.shape[0] === t.shape[1];
     if (d > 0) {
-      findings.push({ level: 'exclude', code: 'non-finite-weights', message: `${d} non-finite weight(s) in layer ${t.name}, left out of every measure.`, where: [t.name], count: d });
+      const inGraph = square ? ' (in graph density each is neither an edge nor a non-edge: its pair is left out of the possible pairs and the degrees)' : '';
+      findings.push({ level: 'exclude', code: 'non-finite-weights', message: `${d} non-finite weight(s) in layer ${t.name}, left out of every measure${inGraph}.`, where: [t.name], count: d });
     }
     parts.push(values);
     const c = scanValues(values, tol);
     const dens = values.length ? c.nonzero / values.length : 0;
     let gd: number | null = null;
-    if (t.shape.length === 2 && t.shape[0] === t.shape[1] && d === 0) {
-      const g = graphDensity({ rows: t.shape[0], cols: t.shape[1], data: t.data }, { directed: true, selfLoops: false, tolerance: tol });
+    if (square) {
+      const g = graphDensity({ rows: t.shape[0], cols: t.shape[1], data: t.data }, { directed: true, selfLoops: false, tolerance: tol, nonFinite: 'omit' });
       gd = g.density;
       edges += g.edges;
       possible += g.possible;
+      omittedPairs += g.omitted;
       for (const [dir, deg] of [['in', g.inDegree], ['out', g.outDegree]] as const) {
         const hist = new Map<number, number>();
         for (const v of deg) hist.set(v, (hist.get(v) ?? 0) + 1);
@@ -109,8 +115,8 @@ export async function computeWeights(
     gini: measure(giniIndex(all), total, dropped, 'Gini index of |w| over all weights together'),
     kurtosis: measure(excessKurtosis(all), total, dropped, 'excess kurtosis g2 of all weights together'),
   };
-  if (possible > 0) {
-    measures.graph_density = measure(edges / possible, possible, 0, 'directed graph density without self-loops, edges over possible edges summed over square layers');
+  if (possible > 0 || omittedPairs > 0) {
+    measures.graph_density = measure(possible > 0 ? edges / possible : null, possible, omittedPairs, 'directed graph density without self-loops, edges over possible edges (pairs with a finite weight) summed over square layers');
   }
   return {
     id: ds.id,

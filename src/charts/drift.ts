@@ -18,7 +18,7 @@ function status(p: DriftSeries['points'][number]): (typeof STATUS)[number] {
 }
 
 function describe(s: DriftSeries, drift: DriftResult): string {
-  const who = `${measureLabel(s.measure)}${s.group ? ` (group ${s.group})` : ''}`;
+  const who = `${measureLabel(s.measure)}${s.layer ? ` of layer ${s.layer}` : ''}${s.group ? ` (group ${s.group})` : ''}`;
   const pts = s.points;
   const parts = [`Monthly ${who} over ${pts.length} months, ${pts[0]?.month ?? ''} to ${pts[pts.length - 1]?.month ?? ''}.`];
   if (s.baseline) parts.push(`Baseline (${s.baselineMonths.join(', ')}): mean ${fmt(s.baseline.mean)}, SD ${fmt(s.baseline.sd)}.`);
@@ -121,9 +121,9 @@ export function driftSeriesChart(s: DriftSeries, drift: DriftResult): ChartSpec 
     encoding: { x, y: { value: 0 }, text: { field: 'note', type: 'nominal' } },
   });
   const main = { layer: layers };
-  const title = `Drift — ${measureLabel(s.measure)}${s.group ? ` (${s.group})` : ''}`;
+  const title = `Drift — ${measureLabel(s.measure)}${s.layer ? `, layer ${s.layer}` : ''}${s.group ? ` (${s.group})` : ''}`;
   const description = describe(s, drift);
-  const id = `drift--${slug(s.measure)}${s.group ? `--${slug(s.group)}` : ''}`;
+  const id = `drift--${slug(s.measure)}${s.layer ? `--layer-${slug(s.layer)}` : ''}${s.group ? `--${slug(s.group)}` : ''}`;
   const subtitle = `${s.chart === 'ewma' ? 'EWMA' : 'CUSUM'} screening · bars: bootstrap intervals · grey band: baseline mean ± 1 SD`;
   if (s.chart === 'ewma') return { id, title, description, datasetId: null, spec: frame(title, description, main, { subtitle }) };
   const cusum = {

@@ -62,12 +62,13 @@ export async function loadManifest(file: string, workspaceRoot: string): Promise
       const lab = await resolveLabFolder(rootAbs, manifestDir, d.path, d.format, pathCtx);
       const r = lab ?? await resolveInsideWorkspace(rootAbs, manifestDir, d.path, pathCtx);
       const format = lab ? lab.format : resolveFormat(d.format, r.relFiles, { file: relFile, where: `${at}.format`, line: lineOf(`${at}.format`) ?? lineOf(`${at}.path`) });
-      const wrongFor = (field: 'member' | 'series' | 'sorter' | 'imaging', needs: string) =>
+      const wrongFor = (field: 'member' | 'series' | 'recording_end_s' | 'sorter' | 'imaging', needs: string) =>
         problems.push(new InputError(`found ${field === 'sorter' || field === 'imaging' ? `${field} settings` : `${field}: ${JSON.stringify(d[field])}`} for a ${format} dataset; allowed: ${field} only with format ${needs}`, {
           file: relFile, where: `${at}.${field}`, line: lineOf(`${at}.${field}`),
         }));
       if (d.member !== null && format !== 'npz') wrongFor('member', 'npz');
       if (d.series !== null && format !== 'nwb') wrongFor('series', 'nwb');
+      if ((d.recording_end_s ?? null) !== null && format !== 'nwb') wrongFor('recording_end_s', 'nwb');
       if (d.sorter !== null && format !== 'sorter-folder') wrongFor('sorter', 'sorter-folder');
       if (d.imaging !== null && format !== 'imaging-folder') wrongFor('imaging', 'imaging-folder');
       if (format === 'imaging-folder' && d.imaging === null) {
@@ -87,6 +88,7 @@ export async function loadManifest(file: string, workspaceRoot: string): Promise
         month: d.month, group: d.group, layout: d.layout, series: d.series, member: d.member,
         sorter: format === 'sorter-folder' ? (d.sorter ?? { labels: ['good'], sample_rate_hz: null, duration_s: null }) : null,
         imaging: format === 'imaging-folder' ? d.imaging : null,
+        ...((d.recording_end_s ?? null) !== null ? { recording_end_s: d.recording_end_s } : {}),
       });
     } catch (err) {
       if (!(err instanceof InputError)) throw err;

@@ -159,6 +159,10 @@ const DATASET_FIELDS: readonly FieldSpec[] = [
   },
   { name: 'series', type: 'text', rule: 'name', default: null, description: 'NWB: path of the table or series to read, when the file holds several.' },
   { name: 'member', type: 'text', rule: 'name', default: null, defaultText: 'the only member', description: 'NPZ: member to read.' },
+  {
+    name: 'recording_end_s', type: 'number', min: 0, minExclusive: true, defaultText: 'as the file states (epochs, trials, obs_intervals), else the last spike',
+    description: "NWB units tables: when each file's recording ended, in seconds; the matrix ends there and later spikes are left out and counted.",
+  },
   { name: 'sorter', type: 'mapping', nullable: true, fields: SORTER_FIELDS, description: 'Spike-sorter output folder (format sorter-folder): which units and how long.' },
   { name: 'imaging', type: 'mapping', nullable: true, fields: IMAGING_FIELDS, description: 'Imaging-pipeline output folder (format imaging-folder): frame rate, trace and cells.' },
 ];
@@ -174,7 +178,7 @@ export const MANIFEST_FIELDS: readonly FieldSpec[] = [
   { name: 'bootstrap', type: 'mapping', nullable: false, fields: BOOTSTRAP_FIELDS, description: 'Bootstrap interval settings.' },
   {
     name: 'negatives', type: 'enum', values: NEGATIVES_POLICIES, default: 'keep',
-    description: 'Values below zero, for measures that assume non-negative responses: keep, rectify (set to 0), shift (subtract the minimum) or refuse.',
+    description: 'Values below zero, for measures that assume non-negative responses (sparseness, activity ratio, Hoyer, Gini; density is always of the raw values): keep, rectify (set to 0), shift (subtract the minimum) or refuse.',
   },
   { name: 'events', type: 'mapping', nullable: true, fields: EVENT_FIELDS, defaultText: 'none (off)', description: 'Event detection for imaging traces; absent = off.' },
   { name: 'drift', type: 'mapping', nullable: false, fields: DRIFT_FIELDS, description: 'Drift tracking across months.' },

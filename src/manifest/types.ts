@@ -84,6 +84,8 @@ export interface ResolvedDataset {
   series: string | null;
   /** NPZ: member name to read (activity); null = the only member. */
   member: string | null;
+  /** NWB units tables: when the recording ended, seconds; null = as the file states (epochs, trials), else the last spike. */
+  recording_end_s?: number | null;
   /** Settings of a spike-sorter output folder; null for other formats. */
   sorter: SorterSettings | null;
   /** Settings of an imaging-pipeline output folder; null for other formats. */

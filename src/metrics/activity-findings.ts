@@ -83,14 +83,14 @@ export function activityFindings(result: ActivityPassResult, options: ActivityFi
     const policy = result.options.negatives;
     const did =
       policy === 'keep' ? 'kept as they are (sparseness can exceed 1; Hoyer and Gini use |x|)'
-      : policy === 'rectify' ? `set to 0 for the sparseness measures (${plural(t.changedCells, 'value')} changed)`
-      : policy === 'shift' ? `handled by shifting each such unit by its own minimum for the sparseness measures (${plural(t.changedCells, 'value')} changed)`
-      : `handled by leaving the ${plural(t.refusedUnits, 'unit')} holding them out of the sparseness measures`;
-    add('caution', 'negative-values', `${plural(t.negativeCells, 'negative cell')} in ${plural(w.n, 'unit')}, ${did}; skewness and kurtosis use the raw values.`, w.where, t.negativeCells);
+      : policy === 'rectify' ? `set to 0 for the sparseness measures, activity ratio, Hoyer and Gini (${plural(t.changedCells, 'value')} changed)`
+      : policy === 'shift' ? `handled by shifting each such unit by its own minimum for the sparseness measures, activity ratio, Hoyer and Gini (${plural(t.changedCells, 'value')} changed)`
+      : `handled by leaving the ${plural(t.refusedUnits, 'unit')} holding them out of the sparseness measures, activity ratio, Hoyer and Gini`;
+    add('caution', 'negative-values', `${plural(t.negativeCells, 'negative cell')} in ${plural(w.n, 'unit')}, ${did}; density, skewness and kurtosis use the raw values.`, w.where, t.negativeCells);
   }
   if (t.refusedUnits > 0) {
     const w = unitsWhere((u) => U.refused[u] === 1);
-    add('exclude', 'negative-units-refused', `${plural(t.refusedUnits, 'unit')} holding negative values left out of lifetime and population sparseness, activity ratio, Hoyer, Gini and density (negatives: refuse).`, w.where, t.refusedUnits);
+    add('exclude', 'negative-units-refused', `${plural(t.refusedUnits, 'unit')} holding negative values left out of lifetime and population sparseness, activity ratio, Hoyer and Gini (negatives: refuse); density still counts them.`, w.where, t.refusedUnits);
   }
   if (t.saturatedUnits > 0) {
     const w = unitsWhere((u) => U.saturated[u] === 1);

@@ -1,7 +1,8 @@
 /**
  * The per-bin half of the fused pass, done in tiles of bins after a block's rows are scanned.
  *
- * Population sparseness needs, per bin, Σy, Σy² and the active count over units. Adding each row
+ * Population sparseness needs, per bin, Σy, Σy² over units; density the raw active count (|x| >
+ * tol, before the negatives policy, refused units included) and the defined count. Adding each row
  * into three bins-long accumulators as the row is read streams the whole accumulator set (about
  * 20 bytes a bin: 1 MB at 50,000 bins) through the cache once per unit, which measured as the
  * pass's largest cost. Here a block's rows are added tile by tile (TILE bins at a time, so the
@@ -38,8 +39,19 @@ export function accumulateBins(data: Numeric, mask: Uint8Array | undefined, coun
     const j1 = j0 + TILE < bins ? j0 + TILE : bins;
     for (let r = 0; r < count; r++) {
       const mode = rows.mode[r];
-      if (mode > 1) continue;
+      if (mode === 3) continue;
       const off = r * bins;
+      if (mode === 2) {
+        // A refused unit: only density counts it (raw values).
+        const bd2 = acc.refusedDefined;
+        for (let j = j0; j < j1; j++) {
+          const x = data[off + j];
+          if (x - x !== 0 || (mask !== undefined && mask[off + j] !== 0)) continue;
+          bd2[j]++;
+          if (x > tol || x < -tol) ba[j]++;
+        }
+        continue;
+      }
       if (mode === 0 && rows.clean[r] === 1 && rows.shift[r] === 0) {
         for (let j = j0; j < j1; j++) {
           const x = data[off + j];
@@ -61,10 +73,10 @@ export function accumulateBins(data: Numeric, mask: Uint8Array | undefined, coun
         if (!clean && (x - x !== 0 || (mask !== undefined && mask[off + j] !== 0))) continue;
         const y = mode === 1 ? (x > 0 ? x : 0) : x - shiftBy;
         if (!clean) bd[j]++;
+        if (x > tol || x < -tol) ba[j]++; // density: raw values
         if (y === 0) continue;
         bs[j] += y;
         bq[j] += y * y;
-        if (y > tol || y < -tol) ba[j]++;
       }
     }
   }

@@ -8,7 +8,8 @@
  * Per bin j, over the n_j units defined there (policy-transformed y, refused units left out):
  * population sparseness S_j = (1 − a_j)/(1 − 1/n_j), a_j = (Σy)² / (n_j Σy²) (Vinje & Gallant 2000;
  * population = across units, Willmore & Tolhurst 2001, Network 12:255–270); NaN when Σy² = 0
- * (every unit zero: 0/0) or n_j < 2. Density = active / n_j (NaN when n_j = 0).
+ * (every unit zero: 0/0) or n_j < 2. Density is of the raw values, whatever the negatives policy:
+ * cells with |x| > tol over the cells defined in the bin, refused units included (NaN when none).
  * Events: the binary event vector's S = (n − k)/(n − 1), NaN when k = 0 or n < 2.
  */
 import { InternalError } from '../errors.ts';
@@ -32,7 +33,7 @@ const UNIT_KEYS = [
   'defined', 'nan', 'infinite', 'missing', 'negative', 'nonzero', 'atMax', 'changed', 'silent', 'constant', 'refused',
   'hashA', 'hashB', 'eventMedian', 'eventRobustSd', 'eventCount',
 ] as const;
-const BIN_KEYS = ['binPartialDefined', 'binSum', 'binSumSq', 'binActive', 'binNegative', 'binEventPartialDefined', 'binEvents'] as const;
+const BIN_KEYS = ['binPartialDefined', 'binSum', 'binSumSq', 'binActive', 'binRefusedDefined', 'binNegative', 'binEventPartialDefined', 'binEvents'] as const;
 
 /** Merge states over disjoint unit ranges into one (a new state; the inputs are not changed). */
 export function mergeActivityStates(states: ActivityPassState[]): ActivityPassState {
@@ -67,13 +68,16 @@ export function finishActivityPass(input: ActivityPassState | ActivityPassState[
 
   // 1. Per bin.
   const defined = new Int32Array(bins);
+  const densityDefined = new Int32Array(bins);
   const pop = new Float64Array(bins);
   const density = new Float64Array(bins);
   let popOut = 0;
   for (let j = 0; j < bins; j++) {
     const n = st.fullRows + st.binPartialDefined[j];
     defined[j] = n;
-    density[j] = n > 0 ? st.binActive[j] / n : NaN;
+    const nd = n + st.binRefusedDefined[j];
+    densityDefined[j] = nd;
+    density[j] = nd > 0 ? st.binActive[j] / nd : NaN;
     const s = st.binSum[j], q = st.binSumSq[j];
     pop[j] = n >= 2 && q > 0 ? (1 - (s * s) / (n * q)) / (1 - 1 / n) : NaN;
     if (pop[j] > 1 + RANGE_SLACK) popOut++;
@@ -151,7 +155,7 @@ export function finishActivityPass(input: ActivityPassState | ActivityPassState[
       changed: st.changed, silent: st.silent, constant: st.constant, refused: st.refused, hashA: st.hashA, hashB: st.hashB,
       saturated, kurtosisTooFew: tooFew,
     },
-    bin: { populationSparseness: pop, density, defined, active: st.binActive, negative: st.binNegative, sum: st.binSum, sumSq: st.binSumSq },
+    bin: { populationSparseness: pop, density, defined, densityDefined, active: st.binActive, negative: st.binNegative, sum: st.binSum, sumSq: st.binSumSq },
     events,
     totals: t,
     duplicates,

@@ -2,8 +2,9 @@
  * The per-row loops of the fused activity pass (internal to `activity-pass.ts`).
  *
  * A row is one unit across all bins. Pass 1 (`scanRow`) classifies every cell and gathers
- * count, Σx, Σ|x|, Σmax(0,x), min, max and negatives. Pass 2 (`momentsAndBins`) takes the raw
- * mean and gathers the central moment sums Σd², Σd³, Σd⁴ (d = x − mean; two-pass, float64),
+ * count, Σx, Σ|x|, Σmax(0,x), min, max and negatives. Pass 2 (`rowMoments`) takes the raw
+ * mean and gathers the moment sums Σd, Σd², Σd³, Σd⁴ (d = x − mean; two-pass, float64); Σd
+ * corrects the plain Σx/n of pass 1 (see `correctMoments`),
  * nonzero and at-max counts and, in the same loop, adds the policy-transformed value y to the
  * per-bin accumulators (Σy, Σy², active count). The row is in cache for the second pass. No
  * allocation: results go into a reused `RowScan`/`RowMoments`.
@@ -117,10 +118,15 @@ export interface BinAccumulators {
   partialDefined: Int32Array;
   sum: Float64Array;
   sumSq: Float64Array;
+  /** Raw |x| > tol, every unit (density). */
   active: Int32Array;
+  /** Defined cells of refused units (density's denominator with the others). */
+  refusedDefined: Int32Array;
 }
 
 export interface RowMoments {
+  /** Σd, d = x − mean: n times the error of the pass-1 mean (exact d: x and mean are close). */
+  s1: number;
   s2: number;
   s3: number;
   s4: number;
@@ -134,7 +140,7 @@ export interface RowMoments {
 }
 
 export function newRowMoments(): RowMoments {
-  return { s2: 0, s3: 0, s4: 0, s2y: 0, nonzero: 0, atMax: 0, histOk: false };
+  return { s1: 0, s2: 0, s3: 0, s4: 0, s2y: 0, nonzero: 0, atMax: 0, histOk: false };
 }
 
 /**
@@ -177,7 +183,7 @@ export function rowMoments(
   out: RowMoments,
   histFilled = false,
 ): void {
-  let s2 = 0, s3 = 0, s4 = 0, s2y = 0, nz = 0, atMax = 0;
+  let s1 = 0, s2 = 0, s3 = 0, s4 = 0, s2y = 0, nz = 0, atMax = 0;
   out.histOk = false;
   let done = false;
   if (hist !== null && clean && mode === 0) {
@@ -199,6 +205,7 @@ export function rowMoments(
         if (h === 0) continue;
         const d = v - mean;
         const d2 = d * d;
+        s1 += h * d;
         s2 += h * d2;
         s3 += h * d2 * d;
         s4 += h * d2 * d2;
@@ -214,6 +221,7 @@ export function rowMoments(
       if (!clean && (x - x !== 0 || (mask !== undefined && mask[off + j] !== 0))) continue;
       const d = x - mean;
       const d2 = d * d;
+      s1 += d;
       s2 += d2;
       s3 += d2 * d;
       s4 += d2 * d2;
@@ -225,10 +233,31 @@ export function rowMoments(
       }
     }
   }
+  out.s1 = s1;
   out.s2 = s2;
   out.s3 = s3;
   out.s4 = s4;
   out.s2y = s2y;
   out.nonzero = nz;
   out.atMax = atMax;
+}
+
+/**
+ * Move the moment sums of `m` from the pass-1 mean `h` to the mean h + e, e = Σd / n, in place,
+ * and return that mean. Pass 1's Σx is a plain sum: on values sitting on a large offset its
+ * error, though tiny relative to the offset, is not tiny relative to the spread (at offset 1e9,
+ * noise sd 2, g2 was off by 1.6e-6). The d = x − h are exact, so Σd gives the error and the
+ * binomial theorem shifts Σd², Σd³, Σd⁴ to the corrected mean: the "corrected two-pass"
+ * algorithm (Chan, Golub & LeVeque 1983, The American Statistician 37:242–247), carried to the
+ * third and fourth moments as in `momentsOf` (moments.ts). O(1).
+ */
+export function correctMoments(m: RowMoments, h: number, n: number): number {
+  const e = m.s1 / n;
+  if (e === 0) return h;
+  const S2 = m.s2, S3 = m.s3, e2 = e * e;
+  m.s2 = S2 - n * e2;
+  m.s3 = S3 - 3 * e * S2 + 2 * n * e2 * e;
+  m.s4 = m.s4 - 4 * e * S3 + 6 * e2 * S2 - 3 * n * e2 * e2;
+  m.s1 = 0;
+  return h + e;
 }

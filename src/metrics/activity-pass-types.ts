@@ -84,7 +84,10 @@ export interface ActivityPassState {
   binPartialDefined: Int32Array;
   binSum: Float64Array;
   binSumSq: Float64Array;
+  /** Raw cells with |x| > zeroTolerance per bin, over every unit (refused ones too): density's numerator. */
   binActive: Int32Array;
+  /** Defined cells of refused units per bin: with the defined units, density's denominator. */
+  binRefusedDefined: Int32Array;
   /** Raw negative cells per bin, over all units. */
   binNegative: Int32Array;
   // Per bin, events (length 0 when events are off).
@@ -128,10 +131,12 @@ export function checkPassOptions(shape: { units: number; bins: number }, o: Acti
 export interface ActivityBinResult {
   /** Vinje–Gallant S across the units defined in the bin (policy-transformed values). */
   populationSparseness: Float64Array;
-  /** Fraction of the bin's defined units with |y| > zeroTolerance. */
+  /** Fraction of the bin's defined cells, every unit, with raw |x| > zeroTolerance (whatever the negatives policy). */
   density: Float64Array;
   /** Units defined in the bin (finite, not missing, not refused). */
   defined: Int32Array;
+  /** Cells defined in the bin over every unit, refused ones too: density's denominator. */
+  densityDefined: Int32Array;
   active: Int32Array;
   negative: Int32Array;
   sum: Float64Array;
@@ -214,7 +219,7 @@ export function emptyPassState(units: number, bins: number, options: ActivityPas
     eventCount: new Int32Array(ev ? units : 0).fill(-1),
     fullRows: 0,
     binPartialDefined: new Int32Array(bins), binSum: new Float64Array(bins), binSumSq: new Float64Array(bins),
-    binActive: new Int32Array(bins), binNegative: new Int32Array(bins),
+    binActive: new Int32Array(bins), binRefusedDefined: new Int32Array(bins), binNegative: new Int32Array(bins),
     eventFullRows: 0,
     binEventPartialDefined: new Int32Array(ev ? bins : 0), binEvents: new Int32Array(ev ? bins : 0),
   };

@@ -7,8 +7,8 @@
  *        a. scanRow: counts (defined / NaN / ±Inf / missing / negative), Σx, Σ|x|, Σmax(0,x),
  *           min, max                                                     (activity-pass-row.ts)
  *        b. hashRow: two 32-bit hashes of the row's float bits           (duplicate units)
- *        c. rowMoments: Σd², Σd³, Σd⁴ about the raw mean (two-pass), nonzero and at-max
- *           counts (from the Gini histogram for integer rows)
+ *        c. rowMoments: Σd, Σd², Σd³, Σd⁴ about the raw mean (two-pass, corrected by Σd),
+ *           nonzero and at-max counts (from the Gini histogram for integer rows)
  *        d. rowGini: histogram (integer rows, small range) or sorted copy (activity-pass-gini.ts)
  *           (skipped for silent and refused units)
  *        e. rowEvents (optional): median, MAD, event bins                  (activity-pass-events.ts)
@@ -16,6 +16,8 @@
  *      per-bin Σy, Σy² and active count, in unit order                      (activity-pass-bins.ts)
  *   3. `finishActivityPass(state | states[])`: merge disjoint unit ranges, then per-bin
  *      population sparseness and density, duplicates, totals               (activity-pass-finish.ts)
+ * Density is of the raw values against the zero tolerance under every negatives policy (refused
+ * units included); the policy applies to the measures that assume non-negative responses.
  *
  * Per unit (NaN = undefined), with n defined cells, mean x̄ and m_r = Σ(x − x̄)^r / n:
  * - mean x̄ (raw); skewness g1 = m3 / m2^{3/2}; excess kurtosis g2 = m4 / m2² − 3 (biased
@@ -39,7 +41,7 @@
 import type { Numeric, UnitBlock } from '../types.ts';
 import { InternalError } from '../errors.ts';
 import { checkPassOptions, emptyPassState, type ActivityPassOptions, type ActivityPassState } from './activity-pass-types.ts';
-import { countBinNegatives, rowMoments, newRowMoments, newRowScan, scanRow, type RowMode } from './activity-pass-row.ts';
+import { correctMoments, countBinNegatives, rowMoments, newRowMoments, newRowScan, scanRow, type RowMode } from './activity-pass-row.ts';
 import { hashRow, scanHashHistFloat32 } from './activity-pass-hash.ts';
 import { COUNTING_RANGE_LIMIT, giniFromHistogram, newGiniScratch, rowGini, zeroedHistogram } from './activity-pass-gini.ts';
 import { rowEvents, type RowEvents } from './activity-pass-events.ts';
@@ -65,7 +67,7 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
   const evScratch = new Float64Array(opts.events ? bins : 0);
   const evOut: RowEvents = { median: NaN, robustSd: NaN, count: -1 };
   const hash = new Uint32Array(2);
-  const acc = { partialDefined: st.binPartialDefined, sum: st.binSum, sumSq: st.binSumSq, active: st.binActive };
+  const acc = { partialDefined: st.binPartialDefined, sum: st.binSum, sumSq: st.binSumSq, active: st.binActive, refusedDefined: st.binRefusedDefined };
   const tol = opts.zeroTolerance;
   const policy = opts.negatives;
   let rows = newBlockRows(64);
@@ -126,8 +128,7 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
     st.min[u] = scan.min;
     st.max[u] = scan.max;
     const clean = n === bins;
-    const mean = scan.sum / n;
-    st.mean[u] = mean;
+    const mean = scan.sum / n; // plain Σx / n; corrected after the moments loop
 
     // The negatives policy: mode, shift, ȳ and ‖y‖₁ of the row.
     const hasNeg = scan.negative > 0;
@@ -150,6 +151,10 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
     const filled = counted && useHist;
     const hist = filled ? scanHist : useHist ? zeroedHistogram(gini, range, bins) : null;
     rowMoments(data, mask, off, bins, clean, mean, scan.max, mode, yMean, tol, hist, mom, filled);
+    const meanC = correctMoments(mom, mean, n);
+    st.mean[u] = meanC;
+    if (mode === 0) yMean = meanC - shiftBy;
+    if (shiftBy !== 0) l1 = n * yMean; // Σ(x − min) = n·(x̄ − min), from the corrected mean
     rows.mode[r] = mode;
     rows.shift[r] = shiftBy;
     rows.clean[r] = clean ? 1 : 0;

@@ -19,8 +19,12 @@
  * edge is possible (N < 2 without self-loops, N = 0). Directed: outDegree[i] = edges leaving i
  * (row i), inDegree[j] = edges entering j (column j). Undirected: both arrays hold the degree.
  *
- * Negative weights are edges (by magnitude). Non-square → `RangeError`; NaN / ±Infinity cells →
- * `RangeError` naming row, column and flat index. Cost: O(N²) time, 8N bytes for the degrees.
+ * Negative weights are edges (by magnitude). Non-square → `RangeError`. NaN / ±Infinity cells →
+ * `RangeError` naming row, column and flat index, unless `nonFinite: 'omit'`: then a non-finite
+ * entry is neither an edge nor a non-edge. It is left out of the possible pairs (and of the
+ * degrees) and counted in `omitted` (directed: entries; undirected: pairs {i, j} with either
+ * entry non-finite; the diagonal only counts with `selfLoops`). Cost: O(N²) time, 8N bytes for
+ * the degrees.
  */
 import { checkTolerance, nonFiniteCellError } from './check.ts';
 import { toDenseMatrix, type MatrixInput } from './matrix.ts';
@@ -29,6 +33,8 @@ export interface GraphDensityOptions {
   directed?: boolean;
   selfLoops?: boolean;
   tolerance?: number;
+  /** 'throw' (default): a non-finite cell is a RangeError. 'omit': left out of the possible pairs and counted. */
+  nonFinite?: 'throw' | 'omit';
 }
 
 export interface GraphDensity {
@@ -36,23 +42,31 @@ export interface GraphDensity {
   edges: number;
   nodes: number;
   possible: number;
+  /** Pairs left out of `possible` because an entry was non-finite (`nonFinite: 'omit'`; else 0). */
+  omitted: number;
   inDegree: Int32Array;
   outDegree: Int32Array;
 }
 
 export function graphDensity(matrix: MatrixInput, options: GraphDensityOptions = {}): GraphDensity {
   const fn = 'graphDensity';
-  const { directed = true, selfLoops = false, tolerance = 0 } = options;
+  const { directed = true, selfLoops = false, tolerance = 0, nonFinite = 'throw' } = options;
   checkTolerance(fn, tolerance);
   const { rows, cols, data } = toDenseMatrix(fn, matrix);
   if (rows !== cols) {
     throw new RangeError(`${fn}: an adjacency matrix must be square (N × N), got ${rows} × ${cols}`);
   }
   const N = rows;
+  let anyNonFinite = false;
   for (let p = 0; p < N * N; p++) {
     const v = data[p];
-    if (!Number.isFinite(v)) throw nonFiniteCellError(fn, p, N, v);
+    if (!Number.isFinite(v)) {
+      if (nonFinite !== 'omit') throw nonFiniteCellError(fn, p, N, v);
+      anyNonFinite = true;
+    }
   }
+  const ok = (p: number) => !anyNonFinite || Number.isFinite(data[p]);
+  let omitted = 0;
   const inDegree = new Int32Array(N);
   const outDegree = new Int32Array(N);
   let edges = 0;
@@ -60,7 +74,12 @@ export function graphDensity(matrix: MatrixInput, options: GraphDensityOptions =
     for (let i = 0; i < N; i++) {
       const row = i * N;
       for (let j = 0; j < N; j++) {
-        if ((i === j && !selfLoops) || !(Math.abs(data[row + j]) > tolerance)) continue;
+        if (i === j && !selfLoops) continue;
+        if (!ok(row + j)) {
+          omitted++;
+          continue;
+        }
+        if (!(Math.abs(data[row + j]) > tolerance)) continue;
         edges++;
         outDegree[i]++;
         inDegree[j]++;
@@ -68,11 +87,16 @@ export function graphDensity(matrix: MatrixInput, options: GraphDensityOptions =
     }
   } else {
     for (let i = 0; i < N; i++) {
-      if (selfLoops && Math.abs(data[i * N + i]) > tolerance) {
+      if (selfLoops && !ok(i * N + i)) omitted++;
+      else if (selfLoops && Math.abs(data[i * N + i]) > tolerance) {
         edges++;
         outDegree[i]++;
       }
       for (let j = i + 1; j < N; j++) {
+        if (!ok(i * N + j) || !ok(j * N + i)) {
+          omitted++;
+          continue;
+        }
         if (Math.abs(data[i * N + j]) > tolerance || Math.abs(data[j * N + i]) > tolerance) {
           edges++;
           outDegree[i]++;
@@ -83,6 +107,6 @@ export function graphDensity(matrix: MatrixInput, options: GraphDensityOptions =
     inDegree.set(outDegree);
   }
   const offDiagonal = directed ? N * (N - 1) : (N * (N - 1)) / 2;
-  const possible = offDiagonal + (selfLoops ? N : 0);
-  return { density: possible === 0 ? null : edges / possible, edges, nodes: N, possible, inDegree, outDegree };
+  const possible = offDiagonal + (selfLoops ? N : 0) - omitted;
+  return { density: possible === 0 ? null : edges / possible, edges, nodes: N, possible, omitted, inDegree, outDegree };
 }

@@ -69,7 +69,7 @@ export async function openActivityFile(path: string, relPath: string, ds: Resolv
     case 'spikes': return inMemory(await openSpikeTable(path, relPath, delimiterFor(ds.format, relPath), ctx.binMs));
     case 'nwb': {
       const { openNwbActivity } = await import('./nwb.ts');
-      return openNwbActivity(path, { binMs: ctx.binMs, series: ds.series, relPath });
+      return openNwbActivity(path, { binMs: ctx.binMs, series: ds.series, relPath, recordingEndS: ds.recording_end_s ?? null });
     }
     case 'safetensors':
       throw inputError(relPath, 'format', 'safetensors files hold weights, not activity', 'use kind: weights, or store activity as npy, npz, csv, tsv, spikes or nwb');
@@ -160,7 +160,7 @@ function unitsOf(ins: FileInspection, ds: ResolvedDataset): number | null {
   return ds.layout === 'units-by-bins' ? ins.shape[0] : ins.shape[1];
 }
 
-async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind: AuditKind): Promise<FileInspection> {
+async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind: AuditKind, binMs?: number): Promise<FileInspection> {
   const bytes = (await stat(path)).size;
   switch (ds.format) {
     case 'npy': {
@@ -194,7 +194,7 @@ async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind:
     }
     case 'spikes': {
       if (kind === 'weights') throw inputError(rel, 'format', "format 'spikes' holds activity, not weights");
-      await inspectSpikeHeader(path, rel, delimiterFor(ds.format, rel));
+      await inspectSpikeHeader(path, rel, delimiterFor(ds.format, rel), binMs);
       return { path: rel, format: 'spikes', shape: null, dtype: null, bytes };
     }
     case 'safetensors': {
@@ -205,7 +205,7 @@ async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind:
     case 'nwb': {
       if (kind === 'weights') throw inputError(rel, 'format', "format 'nwb' holds activity, not weights");
       const { inspectNwb } = await import('./nwb.ts');
-      return inspectNwb(path, rel, ds.series);
+      return inspectNwb(path, rel, ds.series, binMs === undefined ? undefined : { binMs, recordingEndS: ds.recording_end_s ?? null });
     }
     default:
       throw inputError(rel, 'format', `unknown format '${String(ds.format)}'`);
@@ -246,7 +246,7 @@ export async function inspectDataset(
   for (let i = 0; i < ds.files.length; i++) {
     const rel = ds.relFiles[i];
     try {
-      const ins = await inspectFile(ds.files[i], rel, ds, ctx.kind);
+      const ins = await inspectFile(ds.files[i], rel, ds, ctx.kind, ctx.binMs);
       files.push(ins);
       const units = ctx.kind === 'activity' ? unitsOf(ins, ds) : null;
       if (units !== null) {

@@ -25,7 +25,7 @@ import type { Dataset, File as H5File } from 'h5wasm/node';
 import { InputError } from '../errors.ts';
 import type { Finding, Numeric } from '../types.ts';
 import type { ActivityFile } from './types.ts';
-import { attrNumber, attrString, closeQuietly, copyToFloat64, forEachSlice, getDataset, readRange, requireNumeric, rowsOf, SLICE_BYTES } from './nwb-hdf5.ts';
+import { attrNumber, attrString, closeQuietly, copyToFloat64, forEachSlice, getDataset, isNumeric, readRange, requireNumeric, rowsOf, SLICE_BYTES } from './nwb-hdf5.ts';
 import { binOf } from './nwb-time.ts';
 
 const INTERVAL_SAMPLE = 100_000;
@@ -63,6 +63,11 @@ function readTimeBase(file: H5File, series: string, samples: number, relPath: st
     });
     return { base: { kind: 'timestamps', ds: ts, t0 }, intervalMs: diffs.length ? median(diffs) * 1000 : null, lastT: prev };
   }
+  return rateTimeBase(file, series, samples, relPath);
+}
+
+/** The time base of a series with starting_time and rate (header only: no samples read). */
+function rateTimeBase(file: H5File, series: string, samples: number, relPath: string): { base: TimeBase; intervalMs: number | null; lastT: number } {
   const st = getDataset(file, `${series}/starting_time`);
   if (!st) throw new InputError('time series has neither timestamps nor starting_time', { file: relPath, where: series });
   requireNumeric(st, relPath);
@@ -117,6 +122,55 @@ function tileWriter(count: number, bins: number, perBin: Uint32Array, scale: (me
   };
 }
 
+/**
+ * The bin count at `binMs`, refusing a bin width finer than the sampling interval and a span of
+ * 2^31 bins or more. One place for both messages, so `lacuna check` (from the header, for
+ * rate-based series: `checkSeriesHeader`) and the build refuse with the same words.
+ */
+function binsFor(base: TimeBase, intervalMs: number | null, lastT: number, binMs: number, relPath: string, series: string): number {
+  refuseFinerBins(intervalMs, binMs, relPath, series);
+  const bins = binOf(((lastT - base.t0) * 1000) / binMs) + 1;
+  if (!(bins > 0 && bins < 2 ** 31)) throw new InputError(`series spans ${lastT - base.t0} s, which gives ${bins} bins of ${binMs} ms`, { file: relPath, where: series, hint: 'raise bin_ms' });
+  return bins;
+}
+
+function refuseFinerBins(intervalMs: number | null, binMs: number, relPath: string, series: string): void {
+  if (intervalMs !== null && intervalMs > 0 && binMs < intervalMs * (1 - 1e-6)) {
+    throw new InputError(`bin_ms ${binMs} is finer than this series' sampling interval of ${+intervalMs.toPrecision(6)} ms (${+(1000 / intervalMs).toPrecision(6)} Hz): most bins would hold no sample`, {
+      file: relPath,
+      where: series,
+      hint: `set bin_ms to ${+intervalMs.toPrecision(6)} or a multiple of it`,
+    });
+  }
+}
+
+/**
+ * What the build would refuse about a series at `binMs` before reading its samples (for
+ * `lacuna check`): a rate-based series' starting_time and rate, a bin width finer than 1000 /
+ * rate, too many bins; for a series with timestamps, a bin width finer than the median interval
+ * of its first 100,001 timestamps (the build's estimate, from at most 800 KB; ill-formed
+ * timestamps are left to the build, which reads them all). Throws the build's InputError.
+ */
+export function checkSeriesHeader(file: H5File, series: string, binMs: number, relPath: string): void {
+  const data = getDataset(file, `${series}/data`);
+  const samples = data?.shape?.[0] ?? 0;
+  if (samples === 0) return;
+  const ts = getDataset(file, `${series}/timestamps`);
+  if (ts) {
+    if (!isNumeric(ts) || rowsOf(ts) !== samples) return;
+    const t = readRange(ts, 0, Math.min(samples, INTERVAL_SAMPLE + 1));
+    const diffs = new Float64Array(t.length - 1);
+    for (let k = 1; k < t.length; k++) {
+      if (!Number.isFinite(t[k]) || !Number.isFinite(t[k - 1]) || t[k] < t[k - 1]) return;
+      diffs[k - 1] = t[k] - t[k - 1];
+    }
+    refuseFinerBins(diffs.length ? median(diffs) * 1000 : null, binMs, relPath, series);
+    return;
+  }
+  const { base, intervalMs, lastT } = rateTimeBase(file, series, samples, relPath);
+  binsFor(base, intervalMs, lastT, binMs, relPath, series);
+}
+
 /** Open the time series at `series` as an ActivityFile. Takes ownership of `file` (closed by `close()`). */
 export function openTimeSeries(file: H5File, series: string, neurodataType: string, opts: { path: string; relPath: string; binMs: number }): ActivityFile & { valueUnit: string } {
   const { relPath, binMs } = opts;
@@ -134,15 +188,7 @@ export function openTimeSeries(file: H5File, series: string, neurodataType: stri
   const valueUnit = attrString(data, 'unit') ?? 'unknown';
 
   const { base, intervalMs, lastT } = readTimeBase(file, series, samples, relPath);
-  if (intervalMs !== null && intervalMs > 0 && binMs < intervalMs * (1 - 1e-6)) {
-    throw new InputError(`bin_ms ${binMs} is finer than this series' sampling interval of ${+intervalMs.toPrecision(6)} ms (${+(1000 / intervalMs).toPrecision(6)} Hz): most bins would hold no sample`, {
-      file: relPath,
-      where: series,
-      hint: `set bin_ms to ${+intervalMs.toPrecision(6)} or a multiple of it`,
-    });
-  }
-  const bins = binOf(((lastT - base.t0) * 1000) / binMs) + 1;
-  if (!(bins > 0 && bins < 2 ** 31)) throw new InputError(`series spans ${lastT - base.t0} s, which gives ${bins} bins of ${binMs} ms`, { file: relPath, where: series, hint: 'raise bin_ms' });
+  const bins = binsFor(base, intervalMs, lastT, binMs, relPath, series);
 
   // Samples per bin, shared by every channel.
   const perBin = new Uint32Array(bins);

@@ -4,12 +4,20 @@
  * Bins are half-open, `[k·w, (k+1)·w)` with `w = binMs / 1000` seconds, counted from a time
  * origin chosen by the caller. Times stored as decimal seconds are rarely exact in binary
  * floating point (0.3 / 0.1 = 2.9999999999999996), so a time within `EDGE_TOLERANCE` bins
- * of a bin edge is treated as lying on that edge. Without this, a 10 Hz series binned at
- * 100 ms would put two samples into one bin and none into the next.
+ * of a bin edge is treated as lying on that edge, and an edge belongs to the bin it starts.
+ * Without this, a 10 Hz series binned at 100 ms would put two samples into one bin and none
+ * into the next.
+ *
+ * The tolerance is a few units in the last place of the quotient `x = t · 1000 / binMs`: a
+ * decimal time read into a double, multiplied and divided, is off by at most about 1.5 ulp of
+ * `x` (each of the three roundings adds half an ulp; Goldberg 1991, "What every computer
+ * scientist should know about floating-point arithmetic", §1.2). A wider tolerance moves real
+ * spikes: at 2102.6999995 s, 0.5 µs before a 100 ms edge, a tolerance of 1e-9 · x (2e-5 bins)
+ * would put the spike in the next bin.
  */
 
-/** Relative distance to an edge (in bins) under which a time counts as on the edge. */
-export const EDGE_TOLERANCE = 1e-9;
+/** Distance to an edge, relative to max(1, |x|), under which a time counts as on the edge: 4 ε (4–8 ulps). */
+export const EDGE_TOLERANCE = 4 * Number.EPSILON;
 
 function nearEdge(x: number): number | null {
   const r = Math.round(x);

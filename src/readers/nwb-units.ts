@@ -9,8 +9,10 @@
  * Binning: bin k is `[k·w, (k+1)·w)`, `w = binMs` ms, counted from time 0 — NWB times are
  * seconds from the file's `timestamps_reference_time`, so bin 0 starts there, and every file of a
  * dataset shares that convention. Stretches before recording began are zero unless the file
- * marks them unobserved with `obs_intervals`. The matrix ends at the later of the last spike
- * (its bin included) and the last observation end.
+ * marks them unobserved with `obs_intervals`. The matrix ends at the recording's end: the
+ * manifest's `recording_end_s` when set (later spikes are left out and counted); else the latest
+ * of the last spike (its bin included), the last observation end, and the end the file states
+ * in its epochs or trials tables (nwb-end.ts). The `nwb-units-table` finding says which.
  *
  * Observation intervals: when the table has them, bin k of unit u is *observed* when one of u's
  * intervals covers a positive length of it (`start < (k+1)·w` and `end > k·w`); a bin partly
@@ -30,6 +32,7 @@ import type { ActivityFile } from './types.ts';
 import { closeQuietly, copyToFloat64, forEachSlice, getDataset, readRange, requireNumeric, rowsOf, SLICE_ELEMENTS } from './nwb-hdf5.ts';
 import { binOf, binsToCover, coveredBins, inRanges, mergeRanges } from './nwb-time.ts';
 import { pushAll } from '../util/arrays.ts';
+import { statedRecordingEnd } from './nwb-end.ts';
 
 const MAX_BINS = 2 ** 31 - 1;
 
@@ -81,7 +84,7 @@ function observedRanges(file: H5File, table: string, units: number, binMs: numbe
 }
 
 /** Open the units table at `table` as an ActivityFile. Takes ownership of `file` (closed by `close()`). */
-export function openUnitsTable(file: H5File, table: string, opts: { path: string; relPath: string; binMs: number }): ActivityFile {
+export function openUnitsTable(file: H5File, table: string, opts: { path: string; relPath: string; binMs: number; recordingEndS?: number | null }): ActivityFile {
   const { relPath, binMs } = opts;
   const spikes = getDataset(file, `${table}/spike_times`);
   const indexDs = getDataset(file, `${table}/spike_times_index`);
@@ -102,6 +105,12 @@ export function openUnitsTable(file: H5File, table: string, opts: { path: string
   } else unitLabels = Array.from({ length: units }, (_, i) => String(i));
 
   const obs = observedRanges(file, table, units, binMs, relPath);
+  // The recording's end: the manifest's, else the file's epochs/trials (null: neither says).
+  const fixedEnd = opts.recordingEndS ?? null;
+  const stated = fixedEnd === null ? statedRecordingEnd(file, relPath) : null;
+  const endS = fixedEnd ?? stated?.seconds ?? null;
+  const endBins = endS === null ? null : binsToCover((endS * 1000) / binMs);
+  let afterEnd = 0;
   const observed = (u: number, bin: number): boolean => obs === null || inRanges(obs.ranges, obs.offsets[u], obs.offsets[u + 1], bin);
 
   // One pass over the spikes: validate, find the last, count spikes in unobserved bins.
@@ -119,6 +128,10 @@ export function openUnitsTable(file: H5File, table: string, opts: { path: string
         throw new InputError(`spike time ${t} of unit ${unitLabels[u]} is ${Number.isFinite(t) ? 'negative' : 'not a finite number'}; allowed: seconds ≥ 0 from the reference time`, { file: relPath, where: `${spikes.path}[${k}]` });
       }
       const b = binOf((t * 1000) / binMs);
+      if (endBins !== null && b >= endBins) {
+        afterEnd++;
+        if (fixedEnd !== null) continue; // after the manifest's end: left out
+      }
       if (b > maxBin) maxBin = b;
       if (!observed(u, b)) {
         dropped++;
@@ -127,7 +140,11 @@ export function openUnitsTable(file: H5File, table: string, opts: { path: string
     }
   });
   let bins = maxBin + 1;
-  if (obs && obs.ranges.length > 0) bins = Math.max(bins, obs.ranges.reduce((m, x, i) => (i % 2 === 1 ? Math.max(m, x) : m), 0));
+  let endFrom = 'the last spike';
+  const obsEnd = obs && obs.ranges.length > 0 ? obs.ranges.reduce((m, x, i) => (i % 2 === 1 ? Math.max(m, x) : m), 0) : 0;
+  if (obsEnd > bins) (bins = obsEnd), (endFrom = `the last observation interval (${table}/obs_intervals)`);
+  if (fixedEnd !== null) (bins = endBins as number), (endFrom = `the manifest's recording_end_s (${fixedEnd} s)`);
+  else if (stated && (endBins as number) >= bins) (bins = endBins as number), (endFrom = `${stated.source} (${stated.seconds} s)`);
   if (bins <= 0) throw new InputError('units table has no spikes and no observation intervals, so there is no time span to bin', { file: relPath, where: table });
   if (bins > MAX_BINS) throw new InputError(`binning at ${binMs} ms up to ${((bins * binMs) / 1000).toFixed(3)} s gives ${bins} bins, more than ${MAX_BINS}`, { file: relPath, where: spikes.path, hint: 'raise bin_ms' });
 
@@ -135,10 +152,15 @@ export function openUnitsTable(file: H5File, table: string, opts: { path: string
   findings.push({
     level: 'notice',
     code: 'nwb-units-table',
-    message: `Read the units table ${table} (${units} units, ${assigned} spikes) and counted spikes in ${bins} bins of ${binMs} ms from time 0.`,
+    message: `Read the units table ${table} (${units} units, ${assigned} spikes) and counted spikes in ${bins} bins of ${binMs} ms from time 0; the recording's end was taken from ${endFrom}.`,
     where: [`${relPath}:${table}`],
     count: units,
   });
+  if (afterEnd > 0 && fixedEnd !== null) {
+    findings.push({ level: 'exclude', code: 'spikes-after-end', message: `${afterEnd} spikes at or after the manifest's recording_end_s (${fixedEnd} s) were left out.`, where: [`${relPath}:${spikes.path}`], count: afterEnd });
+  } else if (afterEnd > 0 && stated) {
+    findings.push({ level: 'notice', code: 'spikes-after-stated-end', message: `${afterEnd} spikes come at or after the latest stop_time of ${stated.source} (${stated.seconds} s); the matrix runs to the last spike instead.`, where: [`${relPath}:${stated.source}`], count: afterEnd });
+  }
   if (assigned < nSpikes) {
     findings.push({ level: 'exclude', code: 'unassigned-spikes', message: `${nSpikes - assigned} spike times after the last unit's end offset belong to no unit and were left out.`, where: [`${relPath}:${spikes.path}[${assigned}…]`], count: nSpikes - assigned });
   }

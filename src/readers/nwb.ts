@@ -17,7 +17,7 @@ import type { ActivityFile, FileInspection } from './types.ts';
 import { closeQuietly, openHdf5 } from './nwb-hdf5.ts';
 import { describeCandidate, describeTopLevel, findCandidates, type NwbCandidate } from './nwb-find.ts';
 import { openUnitsTable } from './nwb-units.ts';
-import { openTimeSeries } from './nwb-series.ts';
+import { checkSeriesHeader, openTimeSeries } from './nwb-series.ts';
 
 export type { NwbCandidate } from './nwb-find.ts';
 
@@ -56,6 +56,13 @@ function choose(file: H5File, relPath: string, series: string | null): NwbCandid
   });
 }
 
+/** recording_end_s belongs to units tables; a time series' samples say when it ends. */
+function refuseEndForSeries(c: NwbCandidate, relPath: string, recordingEndS: number | null): void {
+  if (c.kind !== 'units' && recordingEndS !== null) {
+    throw new InputError(`recording_end_s is set, but ${c.path} is a time series, whose samples say when it ends`, { file: relPath, where: 'recording_end_s', hint: 'remove recording_end_s, or choose a units table with series' });
+  }
+}
+
 function checkBinMs(binMs: number, relPath: string): void {
   if (!(Number.isFinite(binMs) && binMs > 0)) throw new InputError(`bin_ms is ${binMs}; allowed: a positive number of milliseconds`, { file: relPath, where: 'bin_ms' });
 }
@@ -67,13 +74,14 @@ function checkBinMs(binMs: number, relPath: string): void {
  * of the samples in each bin, in the series' unit after `conversion`/`offset`. Cost: one pass
  * over spike times or timestamps at open; data are read per `readUnits` call in 4 MiB slices.
  */
-export async function openNwbActivity(path: string, opts: { binMs: number; series: string | null; relPath: string }): Promise<ActivityFile> {
+export async function openNwbActivity(path: string, opts: { binMs: number; series: string | null; relPath: string; recordingEndS?: number | null }): Promise<ActivityFile> {
   checkBinMs(opts.binMs, opts.relPath);
   const file = await openHdf5(path, opts.relPath);
   try {
     const c = choose(file, opts.relPath, opts.series);
     const o = { path, relPath: opts.relPath, binMs: opts.binMs };
-    return c.kind === 'units' ? openUnitsTable(file, c.path, o) : openTimeSeries(file, c.path, c.neurodataType, o);
+    refuseEndForSeries(c, opts.relPath, opts.recordingEndS ?? null);
+    return c.kind === 'units' ? openUnitsTable(file, c.path, { ...o, recordingEndS: opts.recordingEndS ?? null }) : openTimeSeries(file, c.path, c.neurodataType, o);
   } catch (err) {
     closeQuietly(file);
     throw err;
@@ -85,12 +93,19 @@ export async function openNwbActivity(path: string, opts: { binMs: number; serie
  * times or samples are read): the chosen candidate's shape and dtype, and every candidate as
  * `parts` (name = HDF5 path, dtype = `<neurodata_type> <dtype>`). Units tables have shape
  * [units] — their bin count depends on the spike times. `path` is `relPath`, as the other
- * readers' inspections give it. Same InputErrors as opening.
+ * readers' inspections give it. Same InputErrors as opening; with `at` (the audit's bin_ms and
+ * the dataset's recording_end_s) also every refusal the build would make from headers alone
+ * (`checkSeriesHeader`), with the build's message.
  */
-export async function inspectNwb(path: string, relPath: string, series: string | null): Promise<FileInspection> {
+export async function inspectNwb(path: string, relPath: string, series: string | null, at?: { binMs: number; recordingEndS: number | null }): Promise<FileInspection> {
   const file = await openHdf5(path, relPath);
   try {
     const c = choose(file, relPath, series);
+    if (at) {
+      checkBinMs(at.binMs, relPath);
+      refuseEndForSeries(c, relPath, at.recordingEndS);
+      if (c.kind !== 'units') checkSeriesHeader(file, c.path, at.binMs, relPath);
+    }
     const { candidates } = findCandidates(file);
     return {
       path: relPath,

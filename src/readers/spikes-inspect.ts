@@ -5,6 +5,20 @@
 import { inputError } from './byte-source.ts';
 import { cellNumber, splitCells } from './table-text.ts';
 import { textLines } from './text-lines.ts';
+import { binsToCover } from './nwb-time.ts';
+
+const MAX_BINS = 2 ** 31 - 1;
+
+/**
+ * Bins that cover a stated duration at `binMs`: ⌈X / w⌉ (edge tolerance as in nwb-time.ts); an
+ * InputError when that passes 2^31 − 1. Shared by the build (spikes.ts) and `lacuna check`, so
+ * both refuse with the same words.
+ */
+export function durationBins(d: number, binMs: number, relPath: string, line: number): number {
+  const bins = binsToCover((d * 1000) / binMs);
+  if (bins > MAX_BINS) throw inputError(relPath, `row ${line}`, `duration_s ${d} at ${binMs} ms makes more than ${MAX_BINS} bins`);
+  return bins;
+}
 
 /**
  * The duration in a `# duration_s: X` comment line, null for any other comment; an InputError
@@ -18,11 +32,13 @@ export function durationComment(text: string, relPath: string, line: number): nu
   return d;
 }
 
-export async function inspectSpikeHeader(path: string, relPath: string, delim: string): Promise<{ columns: string[]; durationS: number | null }> {
+export async function inspectSpikeHeader(path: string, relPath: string, delim: string, binMs?: number): Promise<{ columns: string[]; durationS: number | null }> {
   let durationS: number | null = null;
   for await (const [line, text] of textLines(path, relPath, 1 << 20)) {
     if (text.trimStart().startsWith('#')) {
-      durationS = durationComment(text, relPath, line) ?? durationS;
+      const d = durationComment(text, relPath, line);
+      if (d !== null && binMs !== undefined) durationBins(d, binMs, relPath, line);
+      durationS = d ?? durationS;
       continue;
     }
     if (text.trim() === '') continue;

@@ -7,9 +7,9 @@
  * `# duration_s: X` comes before the header, in which case ⌈X / w⌉ bins cover [0, X) and a spike
  * at or after X is an InputError (a last bin shorter than w gives a `notice` finding). Without the
  * comment a `notice` finding says the recording's end was taken from the last spike (trailing
- * silence is not seen). A time within 1e-9 of a bin edge (relative to t / w) counts in the later
- * bin, so decimal times such as 0.3 s with 100 ms bins land in bin 3, not in bin 2 through
- * binary rounding. Negative, NaN, infinite or non-numeric times are InputErrors naming the row.
+ * silence is not seen). A time within a few ulps of a bin edge (`binOf` in nwb-time.ts) counts in
+ * the bin the edge starts, so decimal times such as 0.3 s with 100 ms bins land in bin 3, not in
+ * bin 2 through binary rounding, while a spike 0.5 µs before an edge stays before it. Negative, NaN, infinite or non-numeric times are InputErrors naming the row.
  *
  * Units are the distinct labels of the unit column, sorted naturally ("2" before "10", "a9"
  * before "a10"); a unit with no spikes cannot appear (the table does not name it). Counts are
@@ -20,10 +20,10 @@ import type { Finding } from '../types.ts';
 import { inputError } from './byte-source.ts';
 import { cellNumber, splitCells } from './table-text.ts';
 import { textLines } from './text-lines.ts';
-import { durationComment } from './spikes-inspect.ts';
+import { durationBins, durationComment } from './spikes-inspect.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
+import { binOf as binOfQuotient, EDGE_TOLERANCE } from './nwb-time.ts';
 
-const EDGE = 1e-9;
 const MAX_BINS = 2 ** 31 - 1;
 
 /** Compare labels naturally: runs of digits by numeric value, other text by code unit. */
@@ -49,9 +49,8 @@ export function naturalCompare(a: string, b: string): number {
   return a < b ? -1 : a > b ? 1 : 0;
 }
 
-function binOf(t: number, binS: number): number {
-  const q = t / binS;
-  return Math.floor(q + EDGE * Math.max(1, q));
+function binOf(t: number, binMs: number): number {
+  return binOfQuotient((t * 1000) / binMs);
 }
 
 /** Read and bin a spike table at `binMs`. */
@@ -73,8 +72,7 @@ export async function openSpikeTable(path: string, relPath: string, delim: strin
       const d = unitCol < 0 ? durationComment(text, relPath, line) : null;
       if (d !== null) {
         duration = d;
-        nbinsFixed = Math.ceil(d / binS - EDGE * Math.max(1, d / binS));
-        if (nbinsFixed > MAX_BINS) throw inputError(relPath, `row ${line}`, `duration_s ${d} at ${binMs} ms makes more than ${MAX_BINS} bins`);
+        nbinsFixed = durationBins(d, binMs, relPath, line);
       }
       continue;
     }
@@ -99,7 +97,7 @@ export async function openSpikeTable(path: string, relPath: string, delim: strin
     if (t === undefined || !Number.isFinite(t) || t < 0) {
       throw inputError(relPath, `row ${line}, column ${timeCol + 1}`, `time ${JSON.stringify(cells[timeCol].slice(0, 40))} is not allowed; spike times are finite numbers of seconds ≥ 0`);
     }
-    const b = binOf(t, binS);
+    const b = binOf(t, binMs);
     if (nbinsFixed !== null && b >= nbinsFixed) {
       throw inputError(relPath, `row ${line}, column ${timeCol + 1}`, `time ${t} s is at or after the stated duration_s ${duration}`);
     }
@@ -137,7 +135,7 @@ export async function openSpikeTable(path: string, relPath: string, delim: strin
       message: `${relPath}: no '# duration_s:' line, so the recording was taken to end in the bin of the last spike (${bins} bins of ${binMs} ms); silence after it is not counted.`,
       where: [relPath], count: 1,
     });
-  } else if (Math.abs(duration / binS - bins) > EDGE * Math.max(1, bins)) {
+  } else if (Math.abs((duration * 1000) / binMs - bins) > EDGE_TOLERANCE * Math.max(1, bins)) {
     findings.push({
       level: 'notice', code: 'partial-last-bin',
       message: `${relPath}: duration ${duration} s is not a whole number of ${binMs} ms bins; the last bin covers only ${((duration - (bins - 1) * binS) * 1000).toPrecision(4)} ms.`,

@@ -97,9 +97,9 @@ function measuresParagraph(result: AuditResult, c: ReturnType<typeof citer>): st
   const neg = str(p.negatives);
   const negText: Record<string, string> = {
     keep: 'Negative values were kept as recorded; they can push sparseness above 1, and each dataset that had them carries a finding.',
-    rectify: 'Negative values were set to zero (rectified) before the measures were computed.',
-    shift: 'Values were shifted so that the smallest value was zero before the measures were computed.',
-    refuse: 'Negative values were not allowed: a dataset with any would have been refused.',
+    rectify: 'Negative values were set to zero (rectified) for the sparseness measures, activity ratio, Hoyer and Gini; density, skewness and kurtosis used the raw values.',
+    shift: 'Each unit with negative values was shifted so that its smallest value was zero for the sparseness measures, activity ratio, Hoyer and Gini; density, skewness and kurtosis used the raw values.',
+    refuse: 'Units with negative values were left out of the sparseness measures, activity ratio, Hoyer and Gini; density, skewness and kurtosis used the raw values.',
   };
   if (neg && result.kind === 'activity') s.push(negText[neg] ?? `Negative values: policy ${u(neg)}.`);
   if (result.kind === 'weights') s.push('Weights keep their sign; the Hoyer and Gini measures and density use their magnitudes |*w*|.');

@@ -62,12 +62,12 @@ export function driftModel(drift: DriftResult, charts: ChartModel[], anchorFor: 
     adjustment: ADJUST_WORDS[drift.adjustment],
     testsRun: formatCount(drift.testsRun),
     series: drift.series.map((s) => {
-      const heading = `${measureLabel(s.measure)}${s.group ? ` — ${s.group}` : ''}`;
+      const heading = `${measureLabel(s.measure)}${s.layer ? `, layer ${s.layer}` : ''}${s.group ? ` — ${s.group}` : ''}`;
       const mk = s.mannKendall;
       const ts = s.theilSen;
       return {
         heading,
-        anchor: anchorFor(`drift-${s.measure}-${s.group ?? 'all'}`),
+        anchor: anchorFor(`drift-${s.measure}${s.layer ? `-${s.layer}` : ''}-${s.group ?? 'all'}`),
         baseline: s.baseline
           ? `mean ${formatNumber(s.baseline.mean)}, SD ${formatNumber(s.baseline.sd)} over ${s.baselineMonths.join(', ')}`
           : `not available (baseline months: ${s.baselineMonths.join(', ') || 'none'})`,

@@ -80,13 +80,14 @@ describe('loadManifest', () => {
       '  - { id: d, path: ../data/t/w.npz, member: rates }',
     ]), ws.root);
     expect(ok.datasets.map((d: ResolvedDataset) => [d.format, d.member])).toEqual([['csv', null], ['spikes', null], ['npy', null], ['npz', 'rates']]);
-    // Lines: 6 = first dataset, 7 second, 8 third, 9 fourth, 10 fifth (flow items, one per line).
+    // Lines: 6 = first dataset, 7 second, … 11 sixth (flow items, one per line).
     const bad = manifest([
       '  - { id: a, path: ../data/t/rec.dat }',
       '  - { id: b, path: ../data/t/mixed }',
       '  - { id: c, path: ../data/t/rates.csv, format: npy }',
       '  - { id: d, path: ../data/t/rates.csv, member: x }',
       '  - { id: e, path: ../data/t/w.npz, series: /units }',
+      '  - { id: f, path: ../data/t/spk.tsv, format: spikes, recording_end_s: 60 }',
     ]);
     const problems = await loadManifest(bad, ws.root).then(() => [] as InputError[], (e: InputErrors) => e.problems);
     expect(problems.map((p) => [p.where, p.line])).toEqual([
@@ -95,6 +96,7 @@ describe('loadManifest', () => {
       ['datasets[2].format', 8],
       ['datasets[3].member', 9],
       ['datasets[4].series', 10],
+      ['datasets[5].recording_end_s', 11],
     ]);
     expect(problems[0].message).toContain('cannot tell the format of "data/t/rec.dat"');
     expect(problems[1].message).toMatch(/two formats \(npy and csv/);
@@ -172,6 +174,7 @@ describe('manifestReferenceMarkdown', () => {
     ['datasets[].path', 'required'], ['datasets[].files', 'every non-hidden data file'], ['datasets[].month', 'none'],
     ['datasets[].group', 'none'], ['datasets[].layout', 'units-by-bins'], ['datasets[].format', 'from the file extension'],
     ['datasets[].series', 'none'], ['datasets[].member', 'the only member'],
+    ['datasets[].recording_end_s', 'as the file states (epochs, trials, obs_intervals), else the last spike'],
     ['datasets[].sorter', 'none'], ['datasets[].sorter.labels', '[good]'], ['datasets[].sorter.sample_rate_hz', "params.py's sample_rate"],
     ['datasets[].sorter.duration_s', 'to the last spike'], ['datasets[].imaging', 'none'], ['datasets[].imaging.frame_rate_hz', 'required'],
     ['datasets[].imaging.trace', 'F-neuropil'], ['datasets[].imaging.neuropil_k', '0.7'], ['datasets[].imaging.cells', 'flag'],

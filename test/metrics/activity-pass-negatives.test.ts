@@ -1,5 +1,7 @@
 /**
- * The four negatives policies on a 3 × 4 matrix worked by hand.
+ * The four negatives policies on a 3 × 4 matrix worked by hand. Density is of the raw values
+ * under every policy (README, `negatives`: the policy is for the measures that assume
+ * non-negative responses; density counts |x| > tol over every unit, refused ones too).
  *
  *   u0 = [−1, 0, 1, 2]   u1 = [1, 0, 0, 4]   u2 = [0, 3, 0, 0]      (tol 0, min_nonzero 3)
  *
@@ -22,12 +24,13 @@
  *
  * Bins (across u0, u1, u2), binary/one-hot S from reference-values.md, others as above with n = 3:
  *   keep    c0 = (−1,1,0): Σ=0 → a=0 → S = 1/(2/3) = 3/2 (> 1); c1 = (0,0,3): 1; c2 = (1,0,0): 1;
- *           c3 = (2,4,0): a = 36/60 = 0.6 → S = 0.4/(2/3) = 0.6. Density 2/3, 1/3, 1/3, 2/3.
- *   rectify c0 = (0,1,0): 1; c1: 1; c2: 1; c3: 0.6. Density 1/3, 1/3, 1/3, 2/3.
+ *           c3 = (2,4,0): a = 36/60 = 0.6 → S = 0.4/(2/3) = 0.6.
+ *   rectify c0 = (0,1,0): 1; c1: 1; c2: 1; c3: 0.6.
  *   shift   c0 = (0,1,0): 1; c1 = (1,0,3): a = 16/30 → S = (7/15)/(2/3) = 7/10; c2 = (2,0,0): 1;
- *           c3 = (3,4,0): a = 49/75 → S = (26/75)(3/2) = 13/25. Density 1/3, 2/3, 1/3, 2/3.
+ *           c3 = (3,4,0): a = 49/75 → S = (26/75)(3/2) = 13/25.
  *   refuse  u0 left out, n = 2: c0 = (1,0): a = 1/2 → S = (1/2)/(1/2) = 1; c1 = (0,3): 1; c2 = (0,0): 0/0, undefined;
- *           c3 = (4,0): 1. Density 1/2, 1/2, 0, 1/2.
+ *           c3 = (4,0): 1.
+ *   Density, every policy, raw columns (−1,1,0), (0,0,3), (1,0,0), (2,4,0): 2/3, 1/3, 1/3, 2/3.
  */
 import { describe, expect, it } from 'vitest';
 import { createActivityPass, finishActivityPass } from '../../src/metrics/activity-pass.ts';
@@ -48,11 +51,12 @@ function run(negatives: NegativesPolicy) {
 const N = NaN;
 const u1 = { S: 43 / 51, a: 25 / 68, H: 2 - 5 / Math.sqrt(17), G: 0.65 };
 const u2 = { S: 1, a: 0.25, H: 1, G: 0.75 };
+const RAW_DENSITY = [2 / 3, 1 / 3, 1 / 3, 2 / 3];
 const expected: Record<NegativesPolicy, { u0: { S: number; a: number; H: number; G: number }; changed: number; pop: number[]; density: number[] }> = {
-  keep: { u0: { S: 10 / 9, a: 1 / 6, H: 2 - 4 / Math.sqrt(6), G: 3 / 8 }, changed: 0, pop: [1.5, 1, 1, 0.6], density: [2 / 3, 1 / 3, 1 / 3, 2 / 3] },
-  rectify: { u0: { S: 11 / 15, a: 9 / 20, H: 2 - 3 / Math.sqrt(5), G: 7 / 12 }, changed: 1, pop: [1, 1, 1, 0.6], density: [1 / 3, 1 / 3, 1 / 3, 2 / 3] },
-  shift: { u0: { S: 10 / 21, a: 9 / 14, H: 2 - 6 / Math.sqrt(14), G: 5 / 12 }, changed: 4, pop: [1, 0.7, 1, 13 / 25], density: [1 / 3, 2 / 3, 1 / 3, 2 / 3] },
-  refuse: { u0: { S: N, a: N, H: N, G: N }, changed: 0, pop: [1, 1, N, 1], density: [0.5, 0.5, 0, 0.5] },
+  keep: { u0: { S: 10 / 9, a: 1 / 6, H: 2 - 4 / Math.sqrt(6), G: 3 / 8 }, changed: 0, pop: [1.5, 1, 1, 0.6], density: RAW_DENSITY },
+  rectify: { u0: { S: 11 / 15, a: 9 / 20, H: 2 - 3 / Math.sqrt(5), G: 7 / 12 }, changed: 1, pop: [1, 1, 1, 0.6], density: RAW_DENSITY },
+  shift: { u0: { S: 10 / 21, a: 9 / 14, H: 2 - 6 / Math.sqrt(14), G: 5 / 12 }, changed: 4, pop: [1, 0.7, 1, 13 / 25], density: RAW_DENSITY },
+  refuse: { u0: { S: N, a: N, H: N, G: N }, changed: 0, pop: [1, 1, N, 1], density: RAW_DENSITY },
 };
 
 const near = (got: ArrayLike<number>, want: number[]) => {

@@ -64,12 +64,15 @@ for cfg in inp['configs']:
                 c = np.sort(np.abs(y)); k = np.arange(1, n + 1)
                 G = 1 - 2 * np.sum((c / l1) * ((n - k + 0.5) / n))
         unit['S'].append(f(S)); unit['a'].append(f(a)); unit['H'].append(f(H)); unit['G'].append(f(G))
-    bins = {'S': [], 'density': [], 'defined': [], 'active': [], 'neg': []}
+    bins = {'S': [], 'density': [], 'defined': [], 'densityDefined': [], 'active': [], 'neg': []}
     for j in range(B):
         s = Y[use[:, j], j]; n = len(s)
-        bins['defined'].append(int(n)); bins['active'].append(int((np.abs(s) > tol).sum()))
+        bins['defined'].append(int(n))
+        # density: raw values of every unit defined in the bin, whatever the policy
+        raw = vals[defined[:, j], j]; nd = len(raw)
+        bins['densityDefined'].append(int(nd)); bins['active'].append(int((np.abs(raw) > tol).sum()))
         bins['neg'].append(int(((vals[:, j] < 0) & defined[:, j]).sum()))
-        bins['density'].append(f(bins['active'][-1] / n) if n > 0 else None)
+        bins['density'].append(f(bins['active'][-1] / nd) if nd > 0 else None)
         sq = float((s**2).sum())
         bins['S'].append(f((1 - (s.mean()**2) / (sq / n)) / (1 - 1 / n)) if n >= 2 and sq > 0 else None)
     res.append({'unit': unit, 'bin': bins})
@@ -78,7 +81,7 @@ print(json.dumps(res))
 
 type PyUnit = Record<'mean' | 'S' | 'a' | 'H' | 'G' | 'skew' | 'kurt' | 'min' | 'max', (number | null)[]> &
   Record<'defined' | 'nan' | 'inf' | 'missing' | 'neg' | 'nz' | 'atMax' | 'changed', number[]>;
-type PyBin = Record<'S' | 'density', (number | null)[]> & Record<'defined' | 'active' | 'neg', number[]>;
+type PyBin = Record<'S' | 'density', (number | null)[]> & Record<'defined' | 'densityDefined' | 'active' | 'neg', number[]>;
 
 function mismatches(r: ActivityPassResult, ref: { unit: PyUnit; bin: PyBin }, rel: number): string[] {
   const bad: string[] = [];
@@ -96,7 +99,7 @@ function mismatches(r: ActivityPassResult, ref: { unit: PyUnit; bin: PyBin }, re
     ['defined', r.unit.defined, ref.unit.defined], ['nan', r.unit.nan, ref.unit.nan], ['infinite', r.unit.infinite, ref.unit.inf],
     ['missing', r.unit.missing, ref.unit.missing], ['negative', r.unit.negative, ref.unit.neg], ['nonzero', r.unit.nonzero, ref.unit.nz],
     ['atMax', r.unit.atMax, ref.unit.atMax], ['changed', r.unit.changed, ref.unit.changed],
-    ['bin.defined', r.bin.defined, ref.bin.defined], ['bin.active', r.bin.active, ref.bin.active], ['bin.negative', r.bin.negative, ref.bin.neg],
+    ['bin.defined', r.bin.defined, ref.bin.defined], ['bin.densityDefined', r.bin.densityDefined, ref.bin.densityDefined], ['bin.active', r.bin.active, ref.bin.active], ['bin.negative', r.bin.negative, ref.bin.neg],
   ];
   for (const [name, got, want] of intPairs) {
     for (let i = 0; i < want.length; i++) if (got[i] !== want[i]) bad.push(`${name}[${i}]: ${got[i]} vs ${want[i]}`);
