@@ -12,10 +12,11 @@
  * the parameters and the tool version) is unchanged; otherwise it writes the next version.
  */
 import { createHash } from 'node:crypto';
-import { existsSync, linkSync, mkdirSync, readdirSync, readFileSync, unlinkSync, writeFileSync } from 'node:fs';
+import { existsSync, linkSync, mkdirSync, readdirSync, readFileSync, rmSync, unlinkSync } from 'node:fs';
 import { join } from 'node:path';
 import { InputError } from '../errors.ts';
 import type { AuditResult, FileProvenance, VersionEntry } from '../types.ts';
+import { fsyncDir, refuseSymlink, writeNewFileSynced } from './state-files.ts';
 
 export const RECORD_FORMAT = 'lacuna-record/1';
 
@@ -85,6 +86,7 @@ export function readRecord(workspace: string, audit: string, version: string): V
 }
 
 function readRecordFile(file: string): VersionRecord {
+  refuseSymlink(file, join(file, '..', '..', '..'), 'version record');
   let rec: VersionRecord;
   try {
     rec = JSON.parse(readFileSync(file, 'utf8')) as VersionRecord;
@@ -99,18 +101,21 @@ function readRecordFile(file: string): VersionRecord {
 
 /**
  * Write a new version record. Fails (and changes nothing) if a record of that name exists.
+ * The record's bytes and its folder entry are fsynced before it counts as written.
  */
 export function writeRecord(workspace: string, record: VersionRecord): string {
   const dir = recordsDir(workspace, record.result.audit);
   mkdirSync(dir, { recursive: true });
   const file = join(dir, `${record.entry.version}.json`);
   const tmp = join(dir, `.${record.entry.version}.json.tmp-${process.pid}`);
-  writeFileSync(tmp, JSON.stringify(record, null, 1) + '\n');
+  rmSync(tmp, { force: true }); // a leftover of a killed process with our pid
+  writeNewFileSynced(tmp, JSON.stringify(record, null, 1) + '\n');
   try {
     linkSync(tmp, file); // EEXIST rather than overwrite
   } finally {
     unlinkSync(tmp);
   }
+  fsyncDir(dir);
   return file;
 }
 

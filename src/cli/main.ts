@@ -36,13 +36,15 @@ const COMMANDS: Record<string, { summary: string; usage: string; flags: FlagSpec
   },
   build: {
     summary: 'compute every audit and write its versioned report',
-    usage: 'lacuna build [--workspace DIR] [--out DIR] [--audit SLUG] [--shard I/N] [--quiet]',
+    usage: 'lacuna build [--workspace DIR] [--out DIR] [--audit SLUG] [--shard I/N] [--rehash] [--adopt-site] [--quiet]',
     flags: {
       ...common,
       out: { type: 'string', help: 'output folder for the static site', default: DEFAULT_OUT },
       audit: { type: 'string', help: 'build only this audit' },
       shard: { type: 'string', help: 'compute only share I of N of the datasets into the cache; render nothing' },
       workers: { type: 'string', help: 'worker threads for computing datasets', default: 'auto' },
+      rehash: { type: 'boolean', help: 'read every input file again instead of trusting the hash cache' },
+      'adopt-site': { type: 'boolean', help: "take over an --out folder that holds another workspace's site" },
     },
     details:
       'Unchanged inputs reuse the latest version; changed inputs make a new immutable version under OUT/AUDIT/VERSION/.\n' +
@@ -119,6 +121,8 @@ export async function main(argv: string[]): Promise<number> {
           audit: flags.audit as string | undefined,
           shard: flags.shard as string | undefined,
           workers: String(flags.workers),
+          rehash: Boolean(flags.rehash),
+          adoptSite: Boolean(flags['adopt-site']),
           progress,
         });
       case 'demo': {
