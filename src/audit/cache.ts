@@ -14,8 +14,8 @@
  * never sees half an entry; a cache entry that fails to parse is treated as missing.
  *
  * The cache may be shared (a cluster's network file system) and edited by hand, so it is not
- * trusted blindly: every entry carries a digest, SHA-256 of its key and its canonical content
- * (`entryDigest`), checked on read. An entry whose digest does not match is a miss: the file
+ * trusted blindly: every entry carries a digest, SHA-256 of its key and its content (an entry of
+ * `hashes.json`: its canonical JSON, `entryDigest`; a dataset: its stored text), checked on read. An entry whose digest does not match is a miss: the file
  * is hashed again or the dataset computed again, and `onReject` is told (the build prints a
  * notice). The digest catches edits and corruption, not a forger who recomputes it: the cache
  * is a shortcut, the record of a version is the thing to trust.
@@ -39,11 +39,15 @@ export function cacheDir(workspace: string): string {
   return join(workspace, '.lacuna-cache');
 }
 
-function atomicWriteJson(file: string, value: unknown): void {
+function atomicWriteText(file: string, text: string): void {
   mkdirSync(join(file, '..'), { recursive: true });
   const tmp = `${file}.tmp-${process.pid}-${Math.random().toString(36).slice(2)}`;
-  writeFileSync(tmp, JSON.stringify(value));
+  writeFileSync(tmp, text, { flag: 'wx' });
   renameSync(tmp, file);
+}
+
+function atomicWriteJson(file: string, value: unknown): void {
+  atomicWriteText(file, JSON.stringify(value));
 }
 
 function readJson<T>(file: string): T | null {
@@ -140,23 +144,39 @@ export function datasetCacheKey(parts: { files: FileProvenance[]; entry: unknown
   return createHash('sha256').update(canonicalJson(parts)).digest('hex');
 }
 
-/** A dataset entry on disk: the result, and the digest of its key and content. */
-interface DatasetEntry {
-  format: 'lacuna-cache-dataset/1';
-  digest: string;
-  result: DatasetResult;
+/**
+ * A dataset entry on disk is two lines: a header `{ format, key, digest }`, then the result's
+ * JSON text; `digest` is SHA-256 of the key, a newline and that text. Hashing the text as
+ * stored (rather than a canonical form of the parsed value) keeps a cached read cheap.
+ */
+const DATASET_FORMAT = 'lacuna-cache-dataset/2';
+
+function textDigest(key: string, text: string): string {
+  return createHash('sha256').update(key).update('\n').update(text).digest('hex');
 }
 
 export function readCachedDataset(workspace: string, key: string, onReject?: OnReject): DatasetResult | null {
   const file = join(cacheDir(workspace), 'datasets', `${key}.json`);
-  const e = readJson<DatasetEntry>(file);
-  if (!e) return null;
-  const ok = typeof e === 'object' && e.format === 'lacuna-cache-dataset/1' && e.result?.cacheKey === key && e.digest === entryDigest(key, e.result);
-  if (!ok) onReject?.(file, 'the entry does not match its digest (edited, damaged, or written by an older Lacuna)');
-  return ok ? e.result : null;
+  if (!existsSync(file)) return null;
+  let result: DatasetResult | null = null;
+  try {
+    const text = readFileSync(file, 'utf8');
+    const nl = text.indexOf('\n');
+    const head = JSON.parse(text.slice(0, nl)) as { format?: unknown; key?: unknown; digest?: unknown };
+    const body = text.slice(nl + 1);
+    if (nl > 0 && head.format === DATASET_FORMAT && head.key === key && head.digest === textDigest(key, body)) {
+      const r = JSON.parse(body) as DatasetResult;
+      if (r && r.cacheKey === key) result = r;
+    }
+  } catch {
+    // not our layout: refused below
+  }
+  if (!result) onReject?.(file, 'the entry does not match its digest (edited, damaged, or written by an older Lacuna)');
+  return result;
 }
 
 export function writeCachedDataset(workspace: string, result: DatasetResult): void {
-  const entry: DatasetEntry = { format: 'lacuna-cache-dataset/1', digest: entryDigest(result.cacheKey, result), result };
-  atomicWriteJson(join(cacheDir(workspace), 'datasets', `${result.cacheKey}.json`), entry);
+  const body = JSON.stringify(result);
+  const head = JSON.stringify({ format: DATASET_FORMAT, key: result.cacheKey, digest: textDigest(result.cacheKey, body) });
+  atomicWriteText(join(cacheDir(workspace), 'datasets', `${result.cacheKey}.json`), `${head}\n${body}`);
 }

@@ -23,9 +23,9 @@ import type { Progress } from '../cli/progress.ts';
 import { TOOL_VERSION } from '../version.ts';
 import { compareVersions } from './compare.ts';
 import { cleanSiteLeftovers, refuseSymlink } from './state-files.ts';
-import { claimSite, indexesDigest, readSiteState, sha256Hex, writeSiteState, type SiteState } from './site-state.ts';
-import { listVersions, readRecord, recordsDir } from './versions.ts';
-import type { VersionEntry } from '../types.ts';
+import { claimSite, indexesDigest, readSiteState, writeSiteState, type SiteState } from './site-state.ts';
+import { listRecords, listVersions, readRecord } from './versions.ts';
+import type { AuditResult, VersionEntry } from '../types.ts';
 
 export interface RenderOptions {
   /** Take over a site folder that holds another workspace's reports. */
@@ -39,11 +39,11 @@ export function loadRenderModules() {
 
 const own = <T>(o: Record<string, T> | undefined, k: string): T | undefined => (o && Object.hasOwn(o, k) ? o[k] : undefined);
 
-/** Does `<dir>/results.json` hold exactly what rendering this record writes there? */
-function sameResults(dir: string, workspace: string, audit: string, version: string): boolean {
+/** Does `<dir>/results.json` hold exactly what rendering this result writes there? */
+function sameResults(dir: string, result: AuditResult): boolean {
   const file = join(dir, 'results.json');
   if (!existsSync(file)) return false;
-  return readFileSync(file, 'utf8') === `${JSON.stringify(readRecord(workspace, audit, version).result, null, 2)}\n`;
+  return readFileSync(file, 'utf8') === `${JSON.stringify(result, null, 2)}\n`;
 }
 
 interface IndexInput {
@@ -68,32 +68,33 @@ export async function renderSite(out: string, workspace: string, manifestAudits:
   const state = readSiteState(out);
   const known = claimSite(out, workspace, state, options.adoptSite ?? false);
   const realWorkspace = realpathSync(workspace);
-  const removed = cleanSiteLeftovers(out);
-  if (removed.length) progress.info(`removed what an interrupted build left in ${out}: ${removed.join(', ')}`);
-
-  // 3. Plan.
   const recordsRoot = join(workspace, 'records');
   const allAudits = existsSync(recordsRoot)
     ? readdirSync(recordsRoot).filter((a) => !a.startsWith('.') && lstatSync(join(recordsRoot, a)).isDirectory()).sort()
     : [];
+  for (const audit of allAudits) refuseSymlink(join(out, audit), out, 'site folder');
+  const removed = cleanSiteLeftovers(out, allAudits);
+  if (removed.length) progress.info(`removed what an interrupted build left in ${out}: ${removed.join(', ')}`);
+
+  // 3. Plan.
   const present = new Set(manifestAudits);
   const pages: SiteState['pages'] = {};
   const pending: { audit: string; version: string; digest: string }[] = [];
   const indexes: IndexInput[] = [];
   for (const audit of allAudits) {
-    refuseSymlink(join(out, audit), out, 'site folder');
-    const versions = listVersions(workspace, audit);
-    if (!versions.length) continue;
+    const records = listRecords(workspace, audit);
+    if (!records.length) continue;
     pages[audit] = {};
-    for (const v of versions) {
-      const digest = sha256Hex(readFileSync(join(recordsDir(workspace, audit), `${v.version}.json`)));
-      const dir = join(out, audit, v.version);
-      const was = own(own(known, audit), v.version);
-      const current = existsSync(join(dir, 'index.html')) && (was === digest || (was === undefined && sameResults(dir, workspace, audit, v.version)));
-      if (current) pages[audit][v.version] = digest;
-      else pending.push({ audit, version: v.version, digest });
+    for (const { record, sha256: digest } of records) {
+      const version = record.entry.version;
+      const dir = join(out, audit, version);
+      const was = own(own(known, audit), version);
+      const current = existsSync(join(dir, 'index.html')) && (was === digest || (was === undefined && sameResults(dir, record.result)));
+      if (current) pages[audit][version] = digest;
+      else pending.push({ audit, version, digest });
     }
-    const latest = readRecord(workspace, audit, versions[versions.length - 1].version).result;
+    const versions = records.map((r) => r.record.entry);
+    const latest = records[records.length - 1].record.result;
     const findings = { exclude: 0, caution: 0, notice: 0 };
     for (const d of latest.datasets) for (const f of d.findings) findings[f.level] += 1;
     indexes.push({ audit, title: latest.title, versions, latest: latest.version, created: latest.created, datasets: latest.datasets.length, findings, manifestRemoved: !present.has(audit) });

@@ -110,26 +110,30 @@ export function cleanRecordLeftovers(workspace: string): string[] {
   return removed;
 }
 
+const SITE_TMP = /^\.tmp-(old-)?v\d{3,}-\d+$/;
+
 /**
- * Remove what a killed build left in the site: `<out>/<audit>/.tmp-*` (a version being
- * written, or an old copy being replaced) and `<out>/.lacuna-site.json.tmp-*`.
+ * Remove what a killed build left in the site: `<out>/<audit>/.tmp-vNNN-PID` (a version being
+ * written) and `.tmp-old-vNNN-PID` (an old copy being replaced), for the audits named (those
+ * with records), and `<out>/.lacuna-site.json.tmp-*`. Only names a build makes are touched, so
+ * an `--out` pointed at the wrong folder loses nothing of its own.
  */
-export function cleanSiteLeftovers(out: string): string[] {
+export function cleanSiteLeftovers(out: string, audits: string[]): string[] {
   const removed: string[] = [];
   if (!existsSync(out)) return removed;
   for (const name of readdirSync(out)) {
-    const p = join(out, name);
     if (name.startsWith('.lacuna-site.json.tmp-')) {
-      rmSync(p, { force: true });
+      rmSync(join(out, name), { force: true });
       removed.push(name);
-      continue;
     }
-    const st = lstatSync(p);
-    if (!st.isDirectory() || name.startsWith('.')) continue;
-    for (const f of readdirSync(p)) {
-      if (f.startsWith('.tmp-')) {
-        rmSync(join(p, f), { recursive: true, force: true });
-        removed.push(join(name, f));
+  }
+  for (const audit of audits) {
+    const dir = join(out, audit);
+    if (!existsSync(dir) || !lstatSync(dir).isDirectory()) continue;
+    for (const f of readdirSync(dir)) {
+      if (SITE_TMP.test(f)) {
+        rmSync(join(dir, f), { recursive: true, force: true });
+        removed.push(join(audit, f));
       }
     }
   }

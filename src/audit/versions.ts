@@ -55,12 +55,20 @@ export function inputsHash(parts: {
 
 /** Every version of an audit, oldest first. */
 export function listVersions(workspace: string, audit: string): VersionEntry[] {
+  return listRecords(workspace, audit).map((r) => r.record.entry);
+}
+
+/** Every record of an audit, oldest first, with the SHA-256 of its file (each file read once). */
+export function listRecords(workspace: string, audit: string): { record: VersionRecord; sha256: string }[] {
   const dir = recordsDir(workspace, audit);
   if (!existsSync(dir)) return [];
   return readdirSync(dir)
     .filter((f) => f.endsWith('.json') && VERSION_RE.test(f.slice(0, -5)))
     .sort((a, b) => versionNumber(a.slice(0, -5)) - versionNumber(b.slice(0, -5)))
-    .map((f) => readRecordFile(join(dir, f)).entry);
+    .map((f) => {
+      const text = readRecordText(join(dir, f));
+      return { record: parseRecord(join(dir, f), text), sha256: createHash('sha256').update(text).digest('hex') };
+    });
 }
 
 export function versionNumber(version: string): number {
@@ -85,11 +93,19 @@ export function readRecord(workspace: string, audit: string, version: string): V
   return readRecordFile(file);
 }
 
-function readRecordFile(file: string): VersionRecord {
+function readRecordText(file: string): string {
   refuseSymlink(file, join(file, '..', '..', '..'), 'version record');
+  return readFileSync(file, 'utf8');
+}
+
+function readRecordFile(file: string): VersionRecord {
+  return parseRecord(file, readRecordText(file));
+}
+
+function parseRecord(file: string, text: string): VersionRecord {
   let rec: VersionRecord;
   try {
-    rec = JSON.parse(readFileSync(file, 'utf8')) as VersionRecord;
+    rec = JSON.parse(text) as VersionRecord;
   } catch (cause) {
     throw new InputError('version record is not valid JSON', { file, cause, hint: 'restore it from git' });
   }

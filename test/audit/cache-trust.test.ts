@@ -93,27 +93,29 @@ describe('cache entries are checked on read', () => {
     const d1 = v1.datasets.find((d) => d.id === 'd1')!;
     // Edit d1's entry: lifetime sparseness set to 0.123456789, findings removed (valid JSON).
     const file = join(cacheDir(ws), 'datasets', `${d1.cacheKey}.json`);
-    const text = readFileSync(file, 'utf8');
-    const entry = JSON.parse(text);
-    const result = entry.result ?? entry; // the entry's layout is the cache's business; find the result
+    // The entry's layout is the cache's business: its last line is JSON holding the result.
+    const lines = readFileSync(file, 'utf8').split('\n');
+    const entry = JSON.parse(lines[lines.length - 1]);
+    const result = entry.result ?? entry;
     expect(result.measures.lifetime_sparseness.estimate).not.toBe(0.123456789);
     result.measures.lifetime_sparseness.estimate = 0.123456789;
     result.findings = [];
-    writeFileSync(file, JSON.stringify(entry));
+    lines[lines.length - 1] = JSON.stringify(entry);
+    writeFileSync(file, lines.join('\n'));
     // Another dataset changes, so the build makes v002 and takes d1 from the cache.
     const m2 = join(ws, 'data', 'm2.npy');
     const b = readFileSync(m2);
     b[b.length - 1] ^= 0x01;
     writeFileSync(m2, b);
-    const lines: string[] = [];
-    const progress = createProgress({ stream: { write: (s: string) => lines.push(s) } });
+    const printed: string[] = [];
+    const progress = createProgress({ stream: { write: (s: string) => printed.push(s) } });
     const s = await buildWorkspace({ workspace: ws, out, progress, workers: '1' });
     expect(s.audits[0].version).toBe('v002');
     const d1again = readRecord(ws, 'a', 'v002').result.datasets.find((d) => d.id === 'd1')!;
     expect(d1again.measures).toEqual(d1.measures); // unchanged data, same seed: the v001 numbers
     expect(d1again.findings).toEqual(d1.findings);
     expect(JSON.stringify(d1again)).not.toContain('0.123456789');
-    expect(lines.join('')).toMatch(new RegExp(`notice: cache entry .*${d1.cacheKey}\\.json refused`));
+    expect(printed.join('')).toMatch(new RegExp(`notice: cache entry .*${d1.cacheKey}\\.json refused`));
   });
 
   it('a hand-edited hash in hashes.json is refused with a notice, and the record has the real SHA-256', async () => {
