@@ -30,6 +30,7 @@ import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { createPool, type Pool, type Task } from './pool.ts';
 import { acquireWorkspaceLock } from './lock.ts';
 import { loadRenderModules, renderSite } from './render.ts';
+import { claimSite, readSiteState } from './site-state.ts';
 import { cleanRecordLeftovers, refuseSymlinkedWorkspaceState } from './state-files.ts';
 import { buildDrift } from './drift.ts';
 import { describeChange, inputsHash, listVersions, nextVersionName, readRecord, writeRecord, RECORD_FORMAT } from './versions.ts';
@@ -164,8 +165,10 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
   if (!manifests.length) throw new InputError(`no audit named "${o.audit}"`, { hint: `audits here: ${everyManifest.map((m) => m.audit).join(', ') || 'none'}` });
   lap('manifests');
 
-  // Nothing is written through a linked state folder; one plain build of a workspace at a time.
+  // Nothing is written through a linked state folder; one plain build of a workspace at a time;
+  // an output folder of another workspace is refused now, before any work.
   refuseSymlinkedWorkspaceState(workspace);
+  if (!shard) claimSite(o.out, workspace, readSiteState(o.out), o.adoptSite ?? false);
   const release = shard ? () => {} : acquireWorkspaceLock(workspace);
   try {
     const left = shard ? [] : cleanRecordLeftovers(workspace);

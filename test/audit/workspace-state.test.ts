@@ -115,6 +115,7 @@ describe('a site folder belongs to one workspace', () => {
     expect(err).toBeInstanceOf(InputError);
     expect((err as Error).message).toContain(a);
     expect((err as Error).message).toContain('--adopt-site');
+    expect(existsSync(join(b, 'records'))).toBe(false); // refused before any work
     await build(b, out, { adoptSite: true });
     const shown = JSON.parse(readFileSync(join(out, 'fixture', 'v001', 'results.json'), 'utf8'));
     expect(shown).toEqual(readRecord(b, 'fixture', 'v001').result);
