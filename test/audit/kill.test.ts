@@ -1,6 +1,6 @@
 /**
  * Builds killed (SIGKILL, in a child process: test/helpers/kill-child.ts) at each step that
- * writes: the record, a version's temporary folder, the rename of the version into place, the
+ * writes: the workspace lock, the record, a version's temporary folder, the rename of the version into place, the
  * index pages, the site state. After every one, the next plain build must leave the site showing
  * what the records say (the same index pages and results as a site rendered afresh from the
  * records), no leftovers in `records/` or the site, and the earlier version untouched.
@@ -130,6 +130,12 @@ describe('a build killed part-way, then built again', () => {
   it('killed while v002 is being rendered: the partial .tmp-v002-PID/ is removed', async () => {
     await scenario({ fn: 'mkdirSync', match: '/fixture/\\.tmp-v002-\\d+$', when: 'after' }, (ws, out) => {
       expect(readdirSync(join(out, 'fixture')).filter((f) => f.startsWith('.tmp-v002-')).length).toBe(1);
+    });
+  });
+
+  it('killed while holding the workspace lock: the dead holder\'s lock is freed by the next build', async () => {
+    await scenario({ fn: 'linkSync', match: '\\.lacuna-cache/build\\.lock$', when: 'after' }, (ws) => {
+      expect(existsSync(join(ws, '.lacuna-cache', 'build.lock'))).toBe(true);
     });
   });
 
