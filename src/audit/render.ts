@@ -24,7 +24,7 @@ import { TOOL_VERSION } from '../version.ts';
 import { compareVersions } from './compare.ts';
 import { cleanSiteLeftovers, refuseSymlink } from './state-files.ts';
 import { claimSite, indexesDigest, readSiteState, writeSiteState, type SiteState } from './site-state.ts';
-import { listRecords, listVersions, readRecord } from './versions.ts';
+import { listRecords, type VersionRecord } from './versions.ts';
 import type { AuditResult, VersionEntry } from '../types.ts';
 
 export interface RenderOptions {
@@ -81,9 +81,11 @@ export async function renderSite(out: string, workspace: string, manifestAudits:
   const pages: SiteState['pages'] = {};
   const pending: { audit: string; version: string; digest: string }[] = [];
   const indexes: IndexInput[] = [];
+  const recordsOf = new Map<string, VersionRecord[]>();
   for (const audit of allAudits) {
     const records = listRecords(workspace, audit);
     if (!records.length) continue;
+    recordsOf.set(audit, records.map((r) => r.record));
     pages[audit] = {};
     for (const { record, sha256: digest } of records) {
       const version = record.entry.version;
@@ -118,10 +120,11 @@ export async function renderSite(out: string, workspace: string, manifestAudits:
   const rendered: string[] = [];
   const step = progress.step('rendering pages', pending.length);
   for (const p of pending) {
-    const all = listVersions(workspace, p.audit);
+    const records = recordsOf.get(p.audit)!;
+    const all = records.map((r) => r.entry);
     const idx = all.findIndex((v) => v.version === p.version);
-    const rec = readRecord(workspace, p.audit, p.version);
-    const prev = idx > 0 ? readRecord(workspace, p.audit, all[idx - 1].version).result : null;
+    const rec = records[idx];
+    const prev = idx > 0 ? records[idx - 1].result : null;
     const charts = await renderChartSvgs(buildCharts(rec.result));
     const target = join(out, p.audit, p.version);
     const tmp = join(out, p.audit, `.tmp-${p.version}-${process.pid}`);

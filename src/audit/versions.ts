@@ -66,8 +66,13 @@ export function listRecords(workspace: string, audit: string): { record: Version
     .filter((f) => f.endsWith('.json') && VERSION_RE.test(f.slice(0, -5)))
     .sort((a, b) => versionNumber(a.slice(0, -5)) - versionNumber(b.slice(0, -5)))
     .map((f) => {
-      const text = readRecordText(join(dir, f));
-      return { record: parseRecord(join(dir, f), text), sha256: createHash('sha256').update(text).digest('hex') };
+      const file = join(dir, f);
+      const text = readRecordText(file);
+      const record = parseRecord(file, text);
+      if (record.entry.version !== f.slice(0, -5)) {
+        throw new InputError(`the record names version "${String(record.entry.version)}" but its file is ${f}`, { file, where: 'entry.version', hint: 'restore it from git' });
+      }
+      return { record, sha256: createHash('sha256').update(text).digest('hex') };
     });
 }
 

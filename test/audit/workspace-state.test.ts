@@ -76,6 +76,25 @@ describe('linked state folders', () => {
   });
 });
 
+describe('records are untrusted too', () => {
+  it('a record whose version differs from its file name is refused, and nothing is written where it points', async () => {
+    const ws = workspace(4);
+    const out = join(temp('lacuna-site-'), 'site');
+    await build(ws, out);
+    const file = join(ws, 'records', 'fixture', 'v001.json');
+    const rec = JSON.parse(readFileSync(file, 'utf8'));
+    rec.entry.version = '../../escaped';
+    rec.result.version = '../../escaped';
+    writeFileSync(file, JSON.stringify(rec));
+    rmSync(out, { recursive: true });
+    const err = await failure(build(ws, out));
+    expect(err).toBeInstanceOf(InputError);
+    expect((err as Error).message).toContain('v001.json');
+    expect((err as Error).message).toContain('entry.version');
+    expect(existsSync(join(out, '..', 'escaped'))).toBe(false);
+  });
+});
+
 describe('one build of a workspace at a time', () => {
   it('a second build stops with an error naming the holder (pid, host, start) and writes nothing', async () => {
     const ws = workspace(2);
