@@ -2,19 +2,21 @@
  * A build, as a pipeline of plain stages:
  *
  *   1. manifests  — find and validate every `audits/*.md` (all problems reported together)
- *   2. inputs     — SHA-256 of every data file (cached by size, mtime and inode)
+ *   2. inputs     — SHA-256 of every data file (cached by size, mtime, ctime and inode); a
+ *                   plain build first takes the workspace lock (`lock.ts`) and removes what
+ *                   a killed build left in `records/`
  *   3. compute    — each dataset from the cache, or measured on a lane of the pool (this thread
  *                   and worker threads; one large dataset split by unit ranges); --shard: only
  *                   this process's share, then stop: a later plain build renders
  *   4. assemble   — one AuditResult per audit, with drift across months
  *   5. version    — unchanged inputs reuse the latest version; changed inputs write a new record
- *   6. render     — pages for every version not yet in the output folder, the audit's version
- *                   list, the site index; each version written to a temporary folder and renamed
- *                   into place, so an interrupted build leaves the older versions intact
+ *   6. render     — the site converges to the records (`render.ts`): pages for every version
+ *                   missing or rendered from another record, and the indexes whenever what they
+ *                   show changed; each version written to a temporary folder and renamed into
+ *                   place, so an interrupted build leaves the older versions intact
  */
 import { cpus } from 'node:os';
 import { execFileSync } from 'node:child_process';
-import { existsSync, mkdirSync, readdirSync, renameSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { findManifests, loadManifest } from '../manifest/index.ts';
 import type { ResolvedManifest } from '../manifest/types.ts';
@@ -22,13 +24,15 @@ import { InputError, InputErrors } from '../errors.ts';
 import type { AuditResult, DatasetResult, FileProvenance, MeasureResult } from '../types.ts';
 import { TOOL_VERSION } from '../version.ts';
 import type { Progress } from '../cli/progress.ts';
-import { RenderFailure, type RenderFailureItem } from './render-failure.ts';
 import { planHashes, readCachedDataset, recordHashes } from './cache.ts';
 import { datasetParameters, finishSplit, keyFor, unitsOf, type DatasetJob } from './dataset.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { createPool, type Pool, type Task } from './pool.ts';
+import { acquireWorkspaceLock } from './lock.ts';
+import { loadRenderModules, renderSite } from './render.ts';
+import { claimSite, readSiteState } from './site-state.ts';
+import { cleanRecordLeftovers, refuseSymlinkedWorkspaceState } from './state-files.ts';
 import { buildDrift } from './drift.ts';
-import { compareVersions } from './compare.ts';
 import { describeChange, inputsHash, listVersions, nextVersionName, readRecord, writeRecord, RECORD_FORMAT } from './versions.ts';
 import { pushAll } from '../util/arrays.ts';
 
@@ -43,6 +47,10 @@ export interface BuildOptions {
   progress: Progress;
   /** Split an activity dataset of at least this many bytes across workers (default SPLIT_MIN_BYTES). */
   splitMinBytes?: number;
+  /** Read every input again, ignoring the hash index. */
+  rehash?: boolean;
+  /** Take over an output folder that holds another workspace's site (its pages are regenerated). */
+  adoptSite?: boolean;
   /** Fixed clock for tests. */
   now?: () => Date;
 }
@@ -110,7 +118,7 @@ async function planTasks(todo: (DatasetJob & { bytes: number })[], workers: numb
 }
 
 /** 1. Every manifest, validated; all problems of all manifests together. */
-async function loadAll(workspace: string, only?: string): Promise<ResolvedManifest[]> {
+async function loadAll(workspace: string): Promise<ResolvedManifest[]> {
   const files = await findManifests(workspace);
   const manifests: ResolvedManifest[] = [];
   const problems: InputError[] = [];
@@ -129,11 +137,6 @@ async function loadAll(workspace: string, only?: string): Promise<ResolvedManife
     const other = seen.get(m.audit);
     if (other) throw new InputError(`audit slug "${m.audit}" is used by two manifests`, { file: m.relFile, where: 'audit', hint: `also in ${other}` });
     seen.set(m.audit, m.relFile);
-  }
-  if (only) {
-    const picked = manifests.filter((m) => m.audit === only);
-    if (!picked.length) throw new InputError(`no audit named "${only}"`, { hint: `audits here: ${manifests.map((m) => m.audit).join(', ') || 'none'}` });
-    return picked;
   }
   if (!manifests.length) throw new InputError(`no manifests in ${join(workspace, 'audits')}`, { hint: 'add one, or make a demo workspace with `lacuna init DIR`' });
   return manifests;
@@ -157,15 +160,40 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
     t0 = t;
   };
 
-  // 1. Manifests.
-  const manifests = await loadAll(workspace, o.audit);
+  // 1. Manifests (all of them: the site index says which audits lost theirs).
+  const everyManifest = await loadAll(workspace);
+  const manifests = o.audit ? everyManifest.filter((m) => m.audit === o.audit) : everyManifest;
+  if (!manifests.length) throw new InputError(`no audit named "${o.audit}"`, { hint: `audits here: ${everyManifest.map((m) => m.audit).join(', ') || 'none'}` });
   lap('manifests');
 
+  // Nothing is written through a linked state folder; one plain build of a workspace at a time;
+  // an output folder of another workspace is refused now, before any work.
+  refuseSymlinkedWorkspaceState(workspace);
+  if (!shard) claimSite(o.out, workspace, readSiteState(o.out), o.adoptSite ?? false);
+  const release = shard ? () => {} : acquireWorkspaceLock(workspace);
+  try {
+    const left = shard ? [] : cleanRecordLeftovers(workspace);
+    if (left.length) progress.info(`removed what an interrupted build left: ${left.join(', ')}`);
+    return await buildLocked(o, manifests, everyManifest.map((m) => m.audit), shard, timings, lap, now);
+  } finally {
+    release();
+  }
+}
+
+async function buildLocked(
+  o: BuildOptions,
+  manifests: ResolvedManifest[],
+  manifestAudits: string[],
+  shard: { index: number; count: number } | null,
+  timings: BuildSummary['timings'],
+  lap: (k: keyof BuildSummary['timings']) => void,
+  now: () => Date,
+): Promise<BuildSummary> {
   // Start the worker threads now: their start-up overlaps with hashing the inputs. This thread
   // is one of the lanes, so `--workers N` means N − 1 worker threads.
   const pool = createPool(workerCount(o.workers, Infinity) - 1, { mainLane: true });
   try {
-    return await buildWithPool(o, manifests, pool, shard, timings, lap, now);
+    return await buildWithPool(o, manifests, manifestAudits, pool, shard, timings, lap, now);
   } finally {
     await pool.close();
   }
@@ -174,6 +202,7 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
 async function buildWithPool(
   o: BuildOptions,
   manifests: ResolvedManifest[],
+  manifestAudits: string[],
   pool: Pool,
   shard: { index: number; count: number } | null,
   timings: BuildSummary['timings'],
@@ -194,7 +223,8 @@ async function buildWithPool(
     .flatMap((m) => m.datasets.map((d, i) => ({ m, d, i, n: count++ })))
     .filter(({ n }) => !shard || n % shard.count === shard.index - 1);
   const allFiles = chosen.flatMap(({ d }) => d.files.map((abs, i) => ({ abs, rel: d.relFiles[i] })));
-  const { known: provenance, toHash } = planHashes(workspace, allFiles);
+  const notice = (file: string, reason: string) => progress.info(`notice: cache entry ${file} refused, ${reason}; computing it again`);
+  const { known: provenance, toHash } = planHashes(workspace, allFiles, { rehash: o.rehash, onReject: notice });
   const preload = !shard && toHash.length > 0 && pool.lanes >= 2 ? loadRenderModules() : null;
   preload?.catch(() => {}); // a failure to load is reported when the render awaits the modules
   if (toHash.length) {
@@ -216,7 +246,7 @@ async function buildWithPool(
   let split = 0;
   const todo: typeof jobs = [];
   for (const j of mine) {
-    const hit = readCachedDataset(workspace, j.key);
+    const hit = readCachedDataset(workspace, j.key, notice);
     if (hit) results.set(j.key, hit);
     else todo.push(j);
   }
@@ -291,82 +321,9 @@ async function buildWithPool(
   lap('assemble');
 
   // 6. Render.
-  summary.rendered = await renderSite(o.out, workspace, manifests.map((m) => m.audit), progress);
+  summary.rendered = await renderSite(o.out, workspace, manifestAudits, progress, { adoptSite: o.adoptSite });
   lap('render');
   return summary;
 }
 
-/** The report and chart modules (loaded on first use: a no-op rebuild never loads them). */
-function loadRenderModules() {
-  return Promise.all([import('../report/site.ts'), import('../charts/index.ts')]);
-}
-
-/** Pages for every version missing from `out`, then the version lists and the site index. */
-export async function renderSite(out: string, workspace: string, audits: string[], progress: Progress): Promise<string[]> {
-  mkdirSync(out, { recursive: true });
-  const rendered: string[] = [];
-  const pending: { audit: string; version: string }[] = [];
-  for (const audit of audits) {
-    for (const v of listVersions(workspace, audit)) if (!existsSync(join(out, audit, v.version, 'index.html'))) pending.push({ audit, version: v.version });
-  }
-  // The index pages change only when a version was added (or they are missing): a rebuild with
-  // unchanged inputs then loads neither the chart renderer nor Eleventy.
-  const indexMissing = (dir: string) => !existsSync(join(dir, 'index.html'));
-  const touched = new Set(pending.map((p) => p.audit));
-  const allAudits = existsSync(join(workspace, 'records')) ? readdirSync(join(workspace, 'records')).filter((a) => !a.startsWith('.')).sort() : [];
-  if (touched.size === 0 && !indexMissing(out) && allAudits.every((a) => !indexMissing(join(out, a))) && existsSync(join(out, 'assets'))) {
-    return rendered;
-  }
-  const [{ renderVersion, renderAuditIndex, renderSiteIndex, copyAssets }, { buildCharts, renderChartSvgs }] = await loadRenderModules();
-  const step = progress.step('rendering pages', pending.length);
-  const failures: RenderFailureItem[] = [];
-  for (const p of pending) {
-    const all = listVersions(workspace, p.audit);
-    const idx = all.findIndex((v) => v.version === p.version);
-    const rec = readRecord(workspace, p.audit, p.version);
-    const prev = idx > 0 ? readRecord(workspace, p.audit, all[idx - 1].version).result : null;
-    const failed = (step: 'charts' | 'pages', cause: unknown) =>
-      failures.push({ audit: p.audit, version: p.version, step, record: `records/${p.audit}/${p.version}.json`, cause });
-    let charts: Awaited<ReturnType<typeof renderChartSvgs>>;
-    try {
-      charts = await renderChartSvgs(buildCharts(rec.result));
-    } catch (err) {
-      failed('charts', err);
-      continue;
-    }
-    const target = join(out, p.audit, p.version);
-    const tmp = join(out, p.audit, `.tmp-${p.version}-${process.pid}`);
-    rmSync(tmp, { recursive: true, force: true });
-    mkdirSync(tmp, { recursive: true });
-    try {
-      // A version's page lists only its own history, so regenerating it later gives the same page.
-      await renderVersion({ result: rec.result, charts, comparison: prev ? compareVersions(prev, rec.result) : null, versions: all.slice(0, idx + 1) }, tmp);
-      if (existsSync(target)) rmSync(target, { recursive: true, force: true }); // only a folder without index.html: a leftover, not a version
-      renameSync(tmp, target);
-    } catch (err) {
-      rmSync(tmp, { recursive: true, force: true });
-      failed('pages', err);
-      continue;
-    }
-    rendered.push(`${p.audit}/${p.version}`);
-    step.advance(1);
-  }
-  step.done();
-  const siteAudits = [];
-  for (const audit of allAudits) {
-    const versions = listVersions(workspace, audit);
-    if (!versions.length) continue;
-    const latest = readRecord(workspace, audit, versions[versions.length - 1].version).result;
-    if (touched.has(audit) || indexMissing(join(out, audit))) {
-      await renderAuditIndex({ audit, title: latest.title, versions, latest: latest.version }, join(out, audit));
-    }
-    const findings = { exclude: 0, caution: 0, notice: 0 };
-    for (const d of latest.datasets) for (const f of d.findings) findings[f.level] += 1;
-    siteAudits.push({ audit, title: latest.title, latest: latest.version, created: latest.created, datasets: latest.datasets.length, findings });
-  }
-  await renderSiteIndex(siteAudits, out);
-  await copyAssets(out);
-  if (failures.length) throw new RenderFailure(failures);
-  return rendered;
-}
-
+export { renderSite } from './render.ts';

@@ -1,14 +1,24 @@
 /**
  * The content-hash cache in `<workspace>/.lacuna-cache/` (safe to delete; never committed).
  *
- * - `hashes.json`: SHA-256 of each input file keyed by (path, size, mtime, inode), so an
- *   unchanged file is not read again just to learn that it is unchanged.
+ * - `hashes.json`: SHA-256 of each input file keyed by (path, size, mtime, ctime, inode), so an
+ *   unchanged file is not read again just to learn that it is unchanged. The ctime is in the key
+ *   because a user cannot set it: an in-place edit of the same size followed by `touch -r`
+ *   restores the size, mtime and inode, but moves the ctime. `lacuna build --rehash` ignores
+ *   this index and reads every input again.
  * - `datasets/<key>.json`: a computed `DatasetResult`, keyed by a hash of the dataset's file
  *   hashes, its manifest entry, the parameters that affect it and the tool version. Shards of
  *   a cluster build write here; the final render reads from here.
  *
  * Every write goes to a temporary file and is renamed into place, so a reader (or a crash)
  * never sees half an entry; a cache entry that fails to parse is treated as missing.
+ *
+ * The cache may be shared (a cluster's network file system) and edited by hand, so it is not
+ * trusted blindly: every entry carries a digest, SHA-256 of its key and its content (an entry of
+ * `hashes.json`: its canonical JSON, `entryDigest`; a dataset: its stored text), checked on read. An entry whose digest does not match is a miss: the file
+ * is hashed again or the dataset computed again, and `onReject` is told (the build prints a
+ * notice). The digest catches edits and corruption, not a forger who recomputes it: the cache
+ * is a shortcut, the record of a version is the thing to trust.
  */
 import { createHash } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, renameSync, statSync, writeFileSync } from 'node:fs';
@@ -17,15 +27,27 @@ import { join } from 'node:path';
 import type { DatasetResult, FileProvenance } from '../types.ts';
 import { canonicalJson } from './versions.ts';
 
+/** SHA-256 over an entry's key and its canonical content, so neither can change unnoticed. */
+export function entryDigest(key: string, content: unknown): string {
+  return createHash('sha256').update(key).update('\n').update(canonicalJson(content)).digest('hex');
+}
+
+/** Told about each cache entry that was refused (its file, and why). */
+export type OnReject = (file: string, reason: string) => void;
+
 export function cacheDir(workspace: string): string {
   return join(workspace, '.lacuna-cache');
 }
 
-function atomicWriteJson(file: string, value: unknown): void {
+function atomicWriteText(file: string, text: string): void {
   mkdirSync(join(file, '..'), { recursive: true });
   const tmp = `${file}.tmp-${process.pid}-${Math.random().toString(36).slice(2)}`;
-  writeFileSync(tmp, JSON.stringify(value));
+  writeFileSync(tmp, text, { flag: 'wx' });
   renameSync(tmp, file);
+}
+
+function atomicWriteJson(file: string, value: unknown): void {
+  atomicWriteText(file, JSON.stringify(value));
 }
 
 function readJson<T>(file: string): T | null {
@@ -60,7 +82,8 @@ export async function sha256File(path: string, onBytes?: (n: number) => void): P
   return hash.digest('hex');
 }
 
-type HashEntry = { size: number; mtimeMs: number; ino: number; sha256: string };
+type HashStat = { size: number; mtimeMs: number; ctimeMs: number; ino: number; sha256: string };
+type HashEntry = HashStat & { digest: string };
 
 /** A file whose SHA-256 must be computed, with the stat it had when planned. */
 export interface FileToHash {
@@ -68,25 +91,41 @@ export interface FileToHash {
   rel: string;
   size: number;
   mtimeMs: number;
+  ctimeMs: number;
   ino: number;
 }
 
+function hashEntry(rel: string, s: HashStat): HashEntry {
+  const stat = { size: s.size, mtimeMs: s.mtimeMs, ctimeMs: s.ctimeMs, ino: s.ino, sha256: s.sha256 };
+  return { ...stat, digest: entryDigest(rel, stat) };
+}
+
 /**
- * Which of `files` need hashing: those whose size, mtime or inode changed since they were last
- * hashed (or never were). The others' provenance comes from `hashes.json` without reading them.
+ * Which of `files` need hashing: those whose size, mtime, ctime or inode changed since they were
+ * last hashed (or never were, or whose entry fails its digest; all of them with `rehash`). The
+ * others' provenance comes from `hashes.json` without reading them.
  */
-export function planHashes(workspace: string, files: { abs: string; rel: string }[]): { known: Map<string, FileProvenance>; toHash: FileToHash[] } {
-  const index = readJson<Record<string, HashEntry>>(join(cacheDir(workspace), 'hashes.json')) ?? {};
+export function planHashes(
+  workspace: string,
+  files: { abs: string; rel: string }[],
+  options: { rehash?: boolean; onReject?: OnReject } = {},
+): { known: Map<string, FileProvenance>; toHash: FileToHash[] } {
+  const store = join(cacheDir(workspace), 'hashes.json');
+  const index = options.rehash ? {} : (readJson<Record<string, HashEntry>>(store) ?? {});
   const known = new Map<string, FileProvenance>();
   const toHash: FileToHash[] = [];
   const planned = new Set<string>();
   for (const f of files) {
     if (known.has(f.rel) || planned.has(f.rel)) continue;
     const st = statSync(f.abs);
-    const k = index[f.rel];
-    if (k && k.size === st.size && k.mtimeMs === st.mtimeMs && k.ino === st.ino) known.set(f.rel, { path: f.rel, sha256: k.sha256, bytes: st.size });
+    let k: HashEntry | undefined = Object.hasOwn(index, f.rel) ? index[f.rel] : undefined;
+    if (k && (typeof k !== 'object' || k.digest !== hashEntry(f.rel, k).digest)) {
+      options.onReject?.(store, `the entry of ${f.rel} does not match its digest`);
+      k = undefined;
+    }
+    if (k && k.size === st.size && k.mtimeMs === st.mtimeMs && k.ctimeMs === st.ctimeMs && k.ino === st.ino) known.set(f.rel, { path: f.rel, sha256: k.sha256, bytes: st.size });
     else {
-      toHash.push({ abs: f.abs, rel: f.rel, size: st.size, mtimeMs: st.mtimeMs, ino: st.ino });
+      toHash.push({ abs: f.abs, rel: f.rel, size: st.size, mtimeMs: st.mtimeMs, ctimeMs: st.ctimeMs, ino: st.ino });
       planned.add(f.rel);
     }
   }
@@ -98,7 +137,7 @@ export function recordHashes(workspace: string, hashed: { file: FileToHash; sha2
   if (!hashed.length) return;
   const store = join(cacheDir(workspace), 'hashes.json');
   const merged = readJson<Record<string, HashEntry>>(store) ?? {};
-  for (const { file, sha256 } of hashed) merged[file.rel] = { size: file.size, mtimeMs: file.mtimeMs, ino: file.ino, sha256 };
+  for (const { file, sha256 } of hashed) merged[file.rel] = hashEntry(file.rel, { ...file, sha256 });
   atomicWriteJson(store, merged);
 }
 
@@ -106,11 +145,39 @@ export function datasetCacheKey(parts: { files: FileProvenance[]; entry: unknown
   return createHash('sha256').update(canonicalJson(parts)).digest('hex');
 }
 
-export function readCachedDataset(workspace: string, key: string): DatasetResult | null {
-  const r = readJson<DatasetResult>(join(cacheDir(workspace), 'datasets', `${key}.json`));
-  return r && r.cacheKey === key ? r : null;
+/**
+ * A dataset entry on disk is two lines: a header `{ format, key, digest }`, then the result's
+ * JSON text; `digest` is SHA-256 of the key, a newline and that text. Hashing the text as
+ * stored (rather than a canonical form of the parsed value) keeps a cached read cheap.
+ */
+const DATASET_FORMAT = 'lacuna-cache-dataset/2';
+
+function textDigest(key: string, text: string): string {
+  return createHash('sha256').update(key).update('\n').update(text).digest('hex');
+}
+
+export function readCachedDataset(workspace: string, key: string, onReject?: OnReject): DatasetResult | null {
+  const file = join(cacheDir(workspace), 'datasets', `${key}.json`);
+  if (!existsSync(file)) return null;
+  let result: DatasetResult | null = null;
+  try {
+    const text = readFileSync(file, 'utf8');
+    const nl = text.indexOf('\n');
+    const head = JSON.parse(text.slice(0, nl)) as { format?: unknown; key?: unknown; digest?: unknown };
+    const body = text.slice(nl + 1);
+    if (nl > 0 && head.format === DATASET_FORMAT && head.key === key && head.digest === textDigest(key, body)) {
+      const r = JSON.parse(body) as DatasetResult;
+      if (r && r.cacheKey === key) result = r;
+    }
+  } catch {
+    // not our layout: refused below
+  }
+  if (!result) onReject?.(file, 'the entry does not match its digest (edited, damaged, or written by an older Lacuna)');
+  return result;
 }
 
 export function writeCachedDataset(workspace: string, result: DatasetResult): void {
-  atomicWriteJson(join(cacheDir(workspace), 'datasets', `${result.cacheKey}.json`), result);
+  const body = JSON.stringify(result);
+  const head = JSON.stringify({ format: DATASET_FORMAT, key: result.cacheKey, digest: textDigest(result.cacheKey, body) });
+  atomicWriteText(join(cacheDir(workspace), 'datasets', `${result.cacheKey}.json`), `${head}\n${body}`);
 }

@@ -12,10 +12,11 @@
  * the parameters and the tool version) is unchanged; otherwise it writes the next version.
  */
 import { createHash } from 'node:crypto';
-import { existsSync, linkSync, mkdirSync, readdirSync, readFileSync, unlinkSync, writeFileSync } from 'node:fs';
+import { existsSync, linkSync, mkdirSync, readdirSync, readFileSync, rmSync, unlinkSync } from 'node:fs';
 import { join } from 'node:path';
 import { InputError } from '../errors.ts';
 import type { AuditResult, FileProvenance, VersionEntry } from '../types.ts';
+import { fsyncDir, refuseSymlink, writeNewFileSynced } from './state-files.ts';
 
 export const RECORD_FORMAT = 'lacuna-record/1';
 
@@ -54,12 +55,25 @@ export function inputsHash(parts: {
 
 /** Every version of an audit, oldest first. */
 export function listVersions(workspace: string, audit: string): VersionEntry[] {
+  return listRecords(workspace, audit).map((r) => r.record.entry);
+}
+
+/** Every record of an audit, oldest first, with the SHA-256 of its file (each file read once). */
+export function listRecords(workspace: string, audit: string): { record: VersionRecord; sha256: string }[] {
   const dir = recordsDir(workspace, audit);
   if (!existsSync(dir)) return [];
   return readdirSync(dir)
     .filter((f) => f.endsWith('.json') && VERSION_RE.test(f.slice(0, -5)))
     .sort((a, b) => versionNumber(a.slice(0, -5)) - versionNumber(b.slice(0, -5)))
-    .map((f) => readRecordFile(join(dir, f)).entry);
+    .map((f) => {
+      const file = join(dir, f);
+      const text = readRecordText(file);
+      const record = parseRecord(file, text);
+      if (record.entry.version !== f.slice(0, -5)) {
+        throw new InputError(`the record names version "${String(record.entry.version)}" but its file is ${f}`, { file, where: 'entry.version', hint: 'restore it from git' });
+      }
+      return { record, sha256: createHash('sha256').update(text).digest('hex') };
+    });
 }
 
 export function versionNumber(version: string): number {
@@ -84,10 +98,19 @@ export function readRecord(workspace: string, audit: string, version: string): V
   return readRecordFile(file);
 }
 
+function readRecordText(file: string): string {
+  refuseSymlink(file, join(file, '..', '..', '..'), 'version record');
+  return readFileSync(file, 'utf8');
+}
+
 function readRecordFile(file: string): VersionRecord {
+  return parseRecord(file, readRecordText(file));
+}
+
+function parseRecord(file: string, text: string): VersionRecord {
   let rec: VersionRecord;
   try {
-    rec = JSON.parse(readFileSync(file, 'utf8')) as VersionRecord;
+    rec = JSON.parse(text) as VersionRecord;
   } catch (cause) {
     throw new InputError('version record is not valid JSON', { file, cause, hint: 'restore it from git' });
   }
@@ -99,18 +122,21 @@ function readRecordFile(file: string): VersionRecord {
 
 /**
  * Write a new version record. Fails (and changes nothing) if a record of that name exists.
+ * The record's bytes and its folder entry are fsynced before it counts as written.
  */
 export function writeRecord(workspace: string, record: VersionRecord): string {
   const dir = recordsDir(workspace, record.result.audit);
   mkdirSync(dir, { recursive: true });
   const file = join(dir, `${record.entry.version}.json`);
   const tmp = join(dir, `.${record.entry.version}.json.tmp-${process.pid}`);
-  writeFileSync(tmp, JSON.stringify(record, null, 1) + '\n');
+  rmSync(tmp, { force: true }); // a leftover of a killed process with our pid
+  writeNewFileSynced(tmp, JSON.stringify(record, null, 1) + '\n');
   try {
     linkSync(tmp, file); // EEXIST rather than overwrite
   } finally {
     unlinkSync(tmp);
   }
+  fsyncDir(dir);
   return file;
 }
 

@@ -4,7 +4,16 @@ import { InputError } from '../errors.ts';
 import { UsageError } from './args.ts';
 import type { Progress } from './progress.ts';
 
-export async function runBuild(o: { workspace: string; out: string; audit?: string; shard?: string; workers?: string; progress: Progress }): Promise<number> {
+export async function runBuild(o: {
+  workspace: string;
+  out: string;
+  audit?: string;
+  shard?: string;
+  workers?: string;
+  rehash?: boolean;
+  adoptSite?: boolean;
+  progress: Progress;
+}): Promise<number> {
   // Flags are checked before any work, and a bad one is a usage error (exit code 2).
   try {
     if (o.shard !== undefined) parseShard(o.shard);

@@ -20,6 +20,8 @@ export const BUILD_FLAGS: FlagSpec = {
   audit: { type: 'string', value: 'SLUG', help: 'build only this audit' },
   shard: { type: 'string', value: 'I/N', help: 'compute only share I of N of the datasets into the cache; render nothing' },
   workers: { type: 'string', value: 'N', help: 'worker threads for computing datasets ("auto" or a whole number)', default: 'auto' },
+  rehash: { type: 'boolean', help: 'read every input file again instead of trusting the hash cache' },
+  'adopt-site': { type: 'boolean', help: "take over an --out folder that holds another workspace's site" },
   quiet,
 };
 

@@ -92,7 +92,10 @@ export async function main(argv: string[]): Promise<number> {
         return await (await import('./check.ts')).runCheck(where(false).workspace, progress);
       case 'build': {
         const { workspace, out } = where(true);
-        return await (await import('./build.ts')).runBuild({ workspace, out, audit: given('audit'), shard: given('shard'), workers: given('workers'), progress });
+        return await (await import('./build.ts')).runBuild({
+          workspace, out, audit: given('audit'), shard: given('shard'), workers: given('workers'),
+          rehash: Boolean(flags.rehash), adoptSite: Boolean(flags['adopt-site']), progress,
+        });
       }
       case 'demo': {
         // The packaged demo: regenerated in place (seeded, so the same bytes), then built.

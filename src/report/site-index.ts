@@ -63,10 +63,12 @@ export interface SiteAuditInput {
   created: string;
   datasets: number;
   findings: { exclude: number; caution: number; notice: number };
+  /** The audit has records but its manifest was removed: its versions stay readable. */
+  manifestRemoved?: boolean;
 }
 
 export interface SiteIndexModel {
-  audits: { audit: string; title: string; latest: string; created: string; href: string; latestHref: string; datasets: string; exclude: string; caution: string; notice: string }[];
+  audits: { audit: string; title: string; latest: string; created: string; href: string; latestHref: string; datasets: string; exclude: string; caution: string; notice: string; manifestRemoved: boolean }[];
 }
 
 /** Audits sorted by title, then id. */
@@ -84,6 +86,7 @@ export function siteIndexModel(audits: SiteAuditInput[]): SiteIndexModel {
       exclude: formatCount(a.findings.exclude),
       caution: formatCount(a.findings.caution),
       notice: formatCount(a.findings.notice),
+      manifestRemoved: a.manifestRemoved ?? false,
     })),
   };
 }
