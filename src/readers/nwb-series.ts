@@ -21,12 +21,13 @@
  * machine: 200,000 samples × 200 float32 channels (160 MB) read in about 1.8 s, of which about
  * 1.1 s is h5wasm slicing.
  */
-import type { Dataset, File as H5File } from 'h5wasm/node';
+import type { Dataset, File as H5File } from 'h5wasm';
 import { InputError } from '../errors.ts';
 import type { Finding, Numeric } from '../types.ts';
 import type { ActivityFile } from './types.ts';
 import { attrNumber, attrString, closeQuietly, copyToFloat64, forEachSlice, getDataset, readRange, requireNumeric, rowsOf, SLICE_BYTES } from './nwb-hdf5.ts';
 import { binOf } from './nwb-time.ts';
+import { readSlice, readValue } from './hdf5-guard.ts';
 
 const INTERVAL_SAMPLE = 100_000;
 
@@ -67,7 +68,7 @@ function readTimeBase(file: H5File, series: string, samples: number, relPath: st
   if (!st) throw new InputError('time series has neither timestamps nor starting_time', { file: relPath, where: series });
   requireNumeric(st, relPath);
   // starting_time is a scalar in NWB; a hyperslab of a scalar is refused by HDF5, so read its value.
-  const t0 = (st.shape ?? []).length === 0 ? Number(st.value) : readRange(st, 0, 1)[0];
+  const t0 = (st.shape ?? []).length === 0 ? Number(readValue(st, relPath)) : readRange(st, 0, 1)[0];
   const rate = attrNumber(st, 'rate');
   if (!Number.isFinite(t0)) throw new InputError(`starting_time ${t0} is not a finite number`, { file: relPath, where: st.path });
   if (rate === null || !Number.isFinite(rate) || rate <= 0) throw new InputError(`starting_time has rate ${rate}; allowed: a positive number (Hz)`, { file: relPath, where: `${st.path}@rate` });
@@ -200,9 +201,9 @@ export function openTimeSeries(file: H5File, series: string, neurodataType: stri
       const tiles = tileWriter(count, bins, perBin, (v) => v * conversion + offset, out, outCols, colOffset, missing);
       for (let a = 0; a < samples; a += rows) {
         const b = Math.min(samples, a + rows);
-        const raw = shape.length === 2 ? data.slice([[a, b], [unitStart, unitStart + count]]) : data.slice([[a, b]]);
+        const raw = readSlice(data, shape.length === 2 ? [[a, b], [unitStart, unitStart + count]] : [[a, b]], relPath);
         copyToFloat64(raw, vals, 0);
-        if (times && base.kind === 'timestamps') copyToFloat64(base.ds.slice([[a, b]]), times, 0);
+        if (times && base.kind === 'timestamps') copyToFloat64(readSlice(base.ds, [[a, b]], relPath), times, 0);
         for (let i = a; i < b; i++) tiles.add(sampleBin(base, binMs, i, times ? times[i - a] : 0), vals, (i - a) * count);
       }
       tiles.finish();

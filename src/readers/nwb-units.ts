@@ -23,11 +23,12 @@
  * column; spike times negative or not finite; interval ends before its start.
  * Cost at open: one pass over spike_times in 4 MiB slices; memory O(units + intervals).
  */
-import type { File as H5File, Dataset } from 'h5wasm/node';
+import type { File as H5File, Dataset } from 'h5wasm';
 import { InputError } from '../errors.ts';
 import type { Finding, Numeric } from '../types.ts';
 import type { ActivityFile } from './types.ts';
 import { closeQuietly, copyToFloat64, forEachSlice, getDataset, readRange, requireNumeric, rowsOf, SLICE_ELEMENTS } from './nwb-hdf5.ts';
+import { readSlice } from './hdf5-guard.ts';
 import { binOf, binsToCover, coveredBins, inRanges, mergeRanges } from './nwb-time.ts';
 
 const MAX_BINS = 2 ** 31 - 1;
@@ -61,7 +62,7 @@ function observedRanges(file: H5File, table: string, units: number, binMs: numbe
   if (index.length !== units) throw new InputError(`obs_intervals_index has ${index.length} rows but the table has ${units} units`, { file: relPath, where: ixDs.path });
   const flat = new Float64Array(shape[0] * 2);
   const rows = SLICE_ELEMENTS / 2;
-  for (let a = 0; a < shape[0]; a += rows) copyToFloat64(iv.slice([[a, Math.min(shape[0], a + rows)], [0, 2]]), flat, 2 * a);
+  for (let a = 0; a < shape[0]; a += rows) copyToFloat64(readSlice(iv, [[a, Math.min(shape[0], a + rows)], [0, 2]], relPath), flat, 2 * a);
   const out: number[] = [];
   const offsets = new Int32Array(units + 1);
   for (let u = 0; u < units; u++) {

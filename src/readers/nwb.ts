@@ -11,7 +11,7 @@
  * `close()`) or closes it before throwing.
  */
 import { stat } from 'node:fs/promises';
-import type { File as H5File } from 'h5wasm/node';
+import type { File as H5File } from 'h5wasm';
 import { InputError } from '../errors.ts';
 import type { ActivityFile, FileInspection } from './types.ts';
 import { closeQuietly, openHdf5 } from './nwb-hdf5.ts';
