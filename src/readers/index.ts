@@ -137,7 +137,7 @@ function unitsOf(ins: FileInspection, ds: ResolvedDataset): number | null {
   return ds.layout === 'units-by-bins' ? ins.shape[0] : ins.shape[1];
 }
 
-async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind: AuditKind): Promise<FileInspection> {
+async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind: AuditKind, binMs: number): Promise<FileInspection> {
   const bytes = (await stat(path)).size;
   switch (ds.format) {
     case 'npy': {
@@ -171,7 +171,7 @@ async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind:
     }
     case 'spikes': {
       if (kind === 'weights') throw inputError(rel, 'format', "format 'spikes' holds activity, not weights");
-      await inspectSpikeHeader(path, rel, delimiterFor(ds.format, rel));
+      await inspectSpikeHeader(path, rel, delimiterFor(ds.format, rel), binMs);
       return { path: rel, format: 'spikes', shape: null, dtype: null, bytes };
     }
     case 'safetensors': {
@@ -182,7 +182,7 @@ async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind:
     case 'nwb': {
       if (kind === 'weights') throw inputError(rel, 'format', "format 'nwb' holds activity, not weights");
       const { inspectNwb } = await import('./nwb.ts');
-      return inspectNwb(path, rel, ds.series);
+      return inspectNwb(path, rel, ds.series, binMs);
     }
     default:
       throw inputError(rel, 'format', `unknown format '${String(ds.format)}'`);
@@ -200,7 +200,7 @@ export async function inspectDataset(
   for (let i = 0; i < ds.files.length; i++) {
     const rel = ds.relFiles[i];
     try {
-      const ins = await inspectFile(ds.files[i], rel, ds, ctx.kind);
+      const ins = await inspectFile(ds.files[i], rel, ds, ctx.kind, ctx.binMs);
       files.push(ins);
       const units = ctx.kind === 'activity' ? unitsOf(ins, ds) : null;
       if (units !== null) {

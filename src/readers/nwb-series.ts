@@ -28,6 +28,7 @@ import type { ActivityFile } from './types.ts';
 import { attrNumber, attrString, closeQuietly, copyToFloat64, forEachSlice, getDataset, readRange, requireNumeric, rowsOf, SLICE_BYTES } from './nwb-hdf5.ts';
 import { binOf } from './nwb-time.ts';
 import { readSlice, readValue } from './hdf5-guard.ts';
+import { checkActivityShape } from './memory-budget.ts';
 
 const INTERVAL_SAMPLE = 100_000;
 
@@ -118,6 +119,29 @@ function tileWriter(count: number, bins: number, perBin: Uint32Array, scale: (me
   };
 }
 
+function seriesBins(t0: number, lastT: number, binMs: number, relPath: string, series: string): number {
+  const bins = binOf(((lastT - t0) * 1000) / binMs) + 1;
+  if (!(bins > 0 && bins < 2 ** 31)) throw new InputError(`series spans ${lastT - t0} s, which gives ${bins} bins of ${binMs} ms`, { file: relPath, where: series, hint: 'raise bin_ms' });
+  return bins;
+}
+
+/**
+ * The memory-budget checks (memory-budget.ts) on a series that need its headers only, shared
+ * by `lacuna check` and the build so both refuse with the same message: the channel count, and
+ * for a series timed by `starting_time` and `rate` (no timestamps to read) its bin count.
+ */
+export function checkSeriesHeader(file: H5File, series: string, binMs: number, relPath: string): void {
+  const data = getDataset(file, `${series}/data`);
+  if (!data) return;
+  const shape = data.shape ?? [];
+  const samples = shape[0] ?? 0;
+  const channels = shape.length === 2 ? shape[1] : 1;
+  checkActivityShape({ units: channels, bins: 0, binMs, file: relPath, where: data.path });
+  if (samples === 0 || getDataset(file, `${series}/timestamps`) || !getDataset(file, `${series}/starting_time`)) return;
+  const { base, lastT } = readTimeBase(file, series, samples, relPath);
+  checkActivityShape({ units: channels, bins: seriesBins(base.t0, lastT, binMs, relPath, series), binMs, file: relPath, where: series });
+}
+
 /** Open the time series at `series` as an ActivityFile. Takes ownership of `file` (closed by `close()`). */
 export function openTimeSeries(file: H5File, series: string, neurodataType: string, opts: { path: string; relPath: string; binMs: number }): ActivityFile & { valueUnit: string } {
   const { relPath, binMs } = opts;
@@ -134,6 +158,7 @@ export function openTimeSeries(file: H5File, series: string, neurodataType: stri
   if (!Number.isFinite(conversion) || !Number.isFinite(offset)) throw new InputError(`data has conversion ${conversion} and offset ${offset}; both must be finite numbers`, { file: relPath, where: data.path });
   const valueUnit = attrString(data, 'unit') ?? 'unknown';
 
+  checkActivityShape({ units: channels, bins: 0, binMs, file: relPath, where: data.path });
   const { base, intervalMs, lastT } = readTimeBase(file, series, samples, relPath);
   if (intervalMs !== null && intervalMs > 0 && binMs < intervalMs * (1 - 1e-6)) {
     throw new InputError(`bin_ms ${binMs} is finer than this series' sampling interval of ${+intervalMs.toPrecision(6)} ms (${+(1000 / intervalMs).toPrecision(6)} Hz): most bins would hold no sample`, {
@@ -142,8 +167,8 @@ export function openTimeSeries(file: H5File, series: string, neurodataType: stri
       hint: `set bin_ms to ${+intervalMs.toPrecision(6)} or a multiple of it`,
     });
   }
-  const bins = binOf(((lastT - base.t0) * 1000) / binMs) + 1;
-  if (!(bins > 0 && bins < 2 ** 31)) throw new InputError(`series spans ${lastT - base.t0} s, which gives ${bins} bins of ${binMs} ms`, { file: relPath, where: series, hint: 'raise bin_ms' });
+  const bins = seriesBins(base.t0, lastT, binMs, relPath, series);
+  checkActivityShape({ units: channels, bins, binMs, file: relPath, where: series });
 
   // Samples per bin, shared by every channel.
   const perBin = new Uint32Array(bins);

@@ -18,6 +18,7 @@ import { closeQuietly, openHdf5 } from './nwb-hdf5.ts';
 import { describeCandidate, describeTopLevel, findCandidates, type NwbCandidate } from './nwb-find.ts';
 import { openUnitsTable } from './nwb-units.ts';
 import { openTimeSeries } from './nwb-series.ts';
+import { checkCandidate } from './nwb-inspect.ts';
 
 export type { NwbCandidate } from './nwb-find.ts';
 
@@ -85,12 +86,15 @@ export async function openNwbActivity(path: string, opts: { binMs: number; serie
  * times or samples are read): the chosen candidate's shape and dtype, and every candidate as
  * `parts` (name = HDF5 path, dtype = `<neurodata_type> <dtype>`). Units tables have shape
  * [units] — their bin count depends on the spike times. `path` is `relPath`, as the other
- * readers' inspections give it. Same InputErrors as opening.
+ * readers' inspections give it. Same InputErrors as opening; also the build's header-only
+ * checks and a one-element probe of each dataset the build reads (nwb-inspect.ts).
  */
-export async function inspectNwb(path: string, relPath: string, series: string | null): Promise<FileInspection> {
+export async function inspectNwb(path: string, relPath: string, series: string | null, binMs: number): Promise<FileInspection> {
+  checkBinMs(binMs, relPath);
   const file = await openHdf5(path, relPath);
   try {
     const c = choose(file, relPath, series);
+    checkCandidate(file, c, binMs, relPath);
     const { candidates } = findCandidates(file);
     return {
       path: relPath,

@@ -1,10 +1,12 @@
 /**
  * Header check of a spike-time table for `lacuna check`: reads only the first 1 MiB, and reports
- * a missing `unit`/`time` column or a bad `# duration_s:` line (spikes.ts has the format).
+ * a missing `unit`/`time` column or a bad `# duration_s:` line, or one that makes more bins than
+ * the build allows (spikes.ts has the format).
  */
 import { inputError } from './byte-source.ts';
 import { cellNumber, splitCells } from './table-text.ts';
 import { textLines } from './text-lines.ts';
+import { checkActivityShape } from './memory-budget.ts';
 
 /**
  * The duration in a `# duration_s: X` comment line, null for any other comment; an InputError
@@ -18,11 +20,29 @@ export function durationComment(text: string, relPath: string, line: number): nu
   return d;
 }
 
-export async function inspectSpikeHeader(path: string, relPath: string, delim: string): Promise<{ columns: string[]; durationS: number | null }> {
+const EDGE = 1e-9;
+const MAX_BINS = 2 ** 31 - 1;
+
+/**
+ * Bins that cover a stated `duration_s` at `binMs` (⌈d / w⌉, edge tolerance as in spikes.ts);
+ * an InputError naming the row when they pass 2³¹ − 1 or the memory budget (memory-budget.ts).
+ * Shared by check and build, so both refuse with the same message.
+ */
+export function durationBins(d: number, binMs: number, relPath: string, line: number): number {
+  const binS = binMs / 1000;
+  const bins = Math.ceil(d / binS - EDGE * Math.max(1, d / binS));
+  if (bins > MAX_BINS) throw inputError(relPath, `row ${line}`, `duration_s ${d} at ${binMs} ms makes more than ${MAX_BINS} bins`);
+  checkActivityShape({ units: 0, bins, binMs, file: relPath, where: `row ${line}` });
+  return bins;
+}
+
+export async function inspectSpikeHeader(path: string, relPath: string, delim: string, binMs?: number): Promise<{ columns: string[]; durationS: number | null }> {
   let durationS: number | null = null;
   for await (const [line, text] of textLines(path, relPath, 1 << 20)) {
     if (text.trimStart().startsWith('#')) {
-      durationS = durationComment(text, relPath, line) ?? durationS;
+      const d = durationComment(text, relPath, line);
+      if (d !== null && binMs !== undefined) durationBins(d, binMs, relPath, line);
+      durationS = d ?? durationS;
       continue;
     }
     if (text.trim() === '') continue;
