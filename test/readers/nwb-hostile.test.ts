@@ -152,6 +152,41 @@ describe.skipIf(!hasH5py)('hostile NWB files written by h5py at test time', () =
     await expectRefused(root, join(files, 'long-series.nwb'), [/\/acquisition\/trace/, /100000000[01] bins of 10 ms/, /raise bin_ms/]);
   });
 
+  it('the sandbox alone keeps outside bytes out: h5wasm used directly, with no check, reads none', async () => {
+    // Control: h5wasm's Node build, which sees the machine's files, does read the outside values
+    // (12345 from the raw file, 777 from the virtual source, id 4242 through the link), so the
+    // fixtures really point outside and this test can fail.
+    const node = (await import('h5wasm/node')).default;
+    await node.ready;
+    const plain = (name: string, path: string): number[] => {
+      const f = new node.File(join(files, name), 'r');
+      try {
+        const d = f.get(path) as InstanceType<typeof node.Dataset> | null;
+        return d ? Array.from(d.value as ArrayLike<number | bigint>, Number) : [];
+      } finally {
+        f.close();
+      }
+    };
+    expect(plain('external-storage.nwb', '/acquisition/trace/data')).toContain(12345);
+    expect(plain('virtual.nwb', '/acquisition/trace/data')).toContain(777);
+    expect(plain('external-link.nwb', '/units/id')).toContain(4242);
+    // The sandboxed library, asked for the same objects with every Lacuna check bypassed.
+    const { openSandboxed, closeSandboxed } = await import('../../src/readers/hdf5-sandbox.ts');
+    const boxed = async (name: string, path: string): Promise<number[]> => {
+      const f = await openSandboxed(join(files, name), name);
+      try {
+        const d = f.get(path) as { value?: unknown } | null;
+        const v = d && 'value' in d ? d.value : null;
+        return ArrayBuffer.isView(v) ? Array.from(v as unknown as ArrayLike<number | bigint>, Number) : [];
+      } finally {
+        closeSandboxed(f);
+      }
+    };
+    expect(await boxed('external-storage.nwb', '/acquisition/trace/data')).not.toContain(12345);
+    expect(await boxed('virtual.nwb', '/acquisition/trace/data')).not.toContain(777);
+    expect(await boxed('external-link.nwb', '/units/id')).not.toContain(4242);
+  });
+
   it('the reader itself throws an InputError naming file and object (in process)', async () => {
     for (const [name, where] of [['external-storage.nwb', '/acquisition/trace/data'], ['virtual.nwb', '/acquisition/trace/data'], ['corrupt-chunk.nwb', '/acquisition/trace/data']]) {
       const err = await inspectNwb(join(files, name), name, null, 10).then(() => null, (e: unknown) => e);
