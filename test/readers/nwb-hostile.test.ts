@@ -106,6 +106,13 @@ with h5py.File(os.path.join(d, 'many-units.nwb'), 'w') as f:
     u['spike_times'] = np.array([0.5])
     u.create_dataset('spike_times_index', shape=(10**8,), dtype='<i8', chunks=(10**6,), compression='gzip', fillvalue=1)
     u.create_dataset('id', shape=(10**8,), dtype='<i8', chunks=(10**6,), compression='gzip')
+def units(f, ids):
+    u = f.create_group('units'); u.attrs['neurodata_type'] = 'Units'
+    u['spike_times'] = np.array([0.25, 0.5, 0.75]); u['spike_times_index'] = np.array([1, 2, 3]); u['id'] = ids
+with h5py.File(os.path.join(d, 'string-ids.nwb'), 'w') as f:
+    units(f, np.array([b'<img src=x onerror=alert(1)>', b'u1', b'\x1b[31mRED\x1b[0m'], dtype='S32'))
+with h5py.File(os.path.join(d, 'vlen-ids.nwb'), 'w') as f:
+    units(f, np.array(['a', 'b', 'c'], dtype=h5py.string_dtype()))
 with h5py.File(os.path.join(d, 'long-series.nwb'), 'w') as f:
     g = f.create_group('acquisition/trace'); g.attrs['neurodata_type'] = 'RoiResponseSeries'
     g.create_dataset('starting_time', data=0.0).attrs['rate'] = 1000.0
@@ -150,6 +157,29 @@ describe.skipIf(!hasH5py)('hostile NWB files written by h5py at test time', () =
     // 10^10 samples at 1000 Hz span 10^7 s: ⌊(10^10 − 1) / 1000 · 1000 / 10⌋ + 1 = 10^9 bins
     // (one more when the bin-edge tolerance of nwb-time.ts rounds 999999999.9 up to the edge).
     await expectRefused(root, join(files, 'long-series.nwb'), [/\/acquisition\/trace/, /100000000[01] bins of 10 ms/, /raise bin_ms/]);
+  });
+
+  it('reads fixed-length string ids as labels with control characters escaped; check and build agree', async () => {
+    const name = 'string-ids.nwb';
+    await inspectNwb(join(files, name), name, null, 10); // check's reader: no error
+    const f = await openNwbActivity(join(files, name), { binMs: 10, series: null, relPath: name });
+    try {
+      // h5py wrote the ids above; ESC (U+001B) becomes the visible text \u{1b}.
+      expect(f.unitLabels).toEqual(['<img src=x onerror=alert(1)>', 'u1', '\\u{1b}[31mRED\\u{1b}[0m']);
+    } finally {
+      await f.close();
+    }
+  });
+
+  it('refuses variable-length string ids in check and build with the same message', async () => {
+    const ws = workspace(root, join(files, 'vlen-ids.nwb'));
+    const check = await runLacunaCapped(['check', '--workspace', ws]);
+    const build = await runLacunaCapped(['build', '--workspace', ws, '--out', join(root, 'vlen-site')]);
+    const line = (t: string) => /data\/vlen-ids\.nwb, \/units\/id: .*/.exec(t)?.[0];
+    expect(check.code).toBe(1);
+    expect(build.code).toBe(1);
+    expect(line(check.stderr)).toMatch(/id holds variable-length strings; allowed: integers/);
+    expect(line(build.stderr)).toBe(line(check.stderr));
   });
 
   it('the sandbox alone keeps outside bytes out: h5wasm used directly, with no check, reads none', async () => {
