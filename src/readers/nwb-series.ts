@@ -81,15 +81,17 @@ function sampleBin(base: TimeBase, binMs: number, i: number, t: number): number 
   return base.kind === 'rate' ? binOf((i * 1000) / (base.rate * binMs)) : binOf(((t - base.t0) * 1000) / binMs);
 }
 
-const TILE_BINS = 256;
+/** Bins per tile: 256, fewer when many channels are read at once, so a tile stays near 4 MiB (never less than one bin). */
+const TILE_BINS_MAX = 256;
 
 /**
  * Accumulate samples (time-major, `count` channels each) into bin sums and write bin means to
- * the unit-major `out`, a tile of TILE_BINS bins at a time: a blocked transpose, so neither the
+ * the unit-major `out`, a tile of up to 256 bins at a time: a blocked transpose, so neither the
  * sums nor the writes stride across the whole matrix. Sample bins must be non-decreasing
  * (timestamps are checked ascending at open). Bins with no sample get 0 and missing = 1.
  */
 function tileWriter(count: number, bins: number, perBin: Uint32Array, scale: (mean: number) => number, out: Numeric, outCols: number, colOffset: number, missing?: Uint8Array) {
+  const TILE_BINS = Math.max(1, Math.min(TILE_BINS_MAX, Math.floor(SLICE_BYTES / (8 * count))));
   const tile = new Float64Array(TILE_BINS * count);
   let tileStart = 0;
   const flush = (): void => {

@@ -30,7 +30,7 @@ import type { ActivityFile } from './types.ts';
 import { closeQuietly, copyToFloat64, forEachSlice, getDataset, readRange, requireNumeric, rowsOf, SLICE_ELEMENTS } from './nwb-hdf5.ts';
 import { readSlice } from './hdf5-guard.ts';
 import { idProblem, readUnitLabels } from './nwb-ids.ts';
-import { checkActivityShape, checkClaimedBytes } from './memory-budget.ts';
+import { BYTES_PER_UNIT, checkActivityShape, checkClaimedBytes } from './memory-budget.ts';
 import { binOf, binsToCover, coveredBins, inRanges, mergeRanges } from './nwb-time.ts';
 
 const MAX_BINS = 2 ** 31 - 1;
@@ -61,7 +61,7 @@ function observedRanges(file: H5File, table: string, units: number, binMs: numbe
   const ixDs = getDataset(file, `${table}/obs_intervals_index`);
   if (!ixDs) throw new InputError('obs_intervals has no obs_intervals_index, so its rows cannot be assigned to units', { file: relPath, where: iv.path });
   if (rowsOf(ixDs) !== units) throw new InputError(`obs_intervals_index has ${rowsOf(ixDs)} rows but the table has ${units} units`, { file: relPath, where: ixDs.path });
-  checkClaimedBytes(shape[0] * 16, `obs_intervals of ${shape[0]} rows`, relPath, iv.path);
+  checkClaimedBytes(units * BYTES_PER_UNIT + shape[0] * 16, `obs_intervals of ${shape[0]} rows (16 B each) beside ${units} units`, relPath, iv.path);
   const index = readIndex(ixDs, shape[0], relPath);
   const flat = new Float64Array(shape[0] * 2);
   const rows = SLICE_ELEMENTS / 2;
@@ -77,7 +77,7 @@ function observedRanges(file: H5File, table: string, units: number, binMs: numbe
       if (e < s) throw new InputError(`observation interval ends (${e} s) before it starts (${s} s)`, { file: relPath, where });
       pairs.push(...coveredBins(s, e, binMs));
     }
-    out.push(...mergeRanges(pairs));
+    for (const x of mergeRanges(pairs)) out.push(x); // no spread: a unit may have more intervals than the call stack takes arguments
     offsets[u + 1] = out.length / 2;
   }
   return { ranges: Float64Array.from(out), offsets };
