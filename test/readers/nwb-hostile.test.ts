@@ -270,6 +270,9 @@ describe.skipIf(!hasShared)('hostile NWB files in ../shared/data/hostile-nwb', (
   it('link-cycle.nwb: a group that contains itself is refused, not walked forever', async () => {
     await expectRefused(root, shared('link-cycle.nwb'), [/\/a\/loop\/loop/, /hard-link cycle/]);
   });
+  it('bad-index.nwb: an index claiming 10^12 spikes where 50 exist is refused by check and build', async () => {
+    await expectRefused(root, shared('bad-index.nwb'), [/\/units\/spike_times_index\[\d+\]/, /past the end of its column \(length 50\)/]);
+  });
   it('string-ids.nwb: read, with control characters escaped in every output', async () => {
     const ws = workspace(root, shared('string-ids.nwb'));
     const out = join(root, 'string-ids-site');
