@@ -21,6 +21,12 @@ export interface CappedResult {
   peakMb: number;
 }
 
+/** Children still running, killed if this process exits first (so none is left blocked). */
+const live = new Set<ReturnType<typeof spawn>>();
+process.on('exit', () => {
+  for (const c of live) c.kill('SIGKILL');
+});
+
 function rssMb(pid: number): number {
   try {
     const m = /VmRSS:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'));
@@ -33,9 +39,10 @@ function rssMb(pid: number): number {
 /** `lacuna ...args` with NO_COLOR, killed past `capMb` of resident memory or `timeoutMs`. */
 export function runLacunaCapped(args: string[], opts: { capMb?: number; timeoutMs?: number } = {}): Promise<CappedResult> {
   const capMb = opts.capMb ?? 1500;
-  const timeoutMs = opts.timeoutMs ?? 90_000;
+  const timeoutMs = opts.timeoutMs ?? 60_000;
   return new Promise((done) => {
     const child = spawn(process.execPath, [BIN, ...args], { env: { ...process.env, NO_COLOR: '1' } });
+    live.add(child);
     let stdout = '';
     let stderr = '';
     let killed: string | null = null;
@@ -51,6 +58,7 @@ export function runLacunaCapped(args: string[], opts: { capMb?: number; timeoutM
       if (killed) child.kill('SIGKILL');
     }, 100);
     child.on('close', (code) => {
+      live.delete(child);
       clearInterval(timer);
       done({ code, stdout, stderr, killed, peakMb });
     });

@@ -27,7 +27,7 @@ function workspace(name: string, table: string): string {
   return ws;
 }
 
-describe('memory budget', () => {
+describe('memory budget', { timeout: 150_000 }, () => {
   it('is a quarter of physical memory, and refuses one byte past it', () => {
     // The rule as documented: units × 512 B + bins × 256 B ≤ totalmem / 4 (os.totalmem from Node).
     expect(memoryBudget()).toBe(Math.floor(totalmem() / 4));

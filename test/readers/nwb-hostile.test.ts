@@ -89,6 +89,10 @@ def series(f, **data_kw):
 
 with h5py.File(os.path.join(d, 'external-storage.nwb'), 'w') as f:
     g = series(f); g.create_dataset('data', shape=(64,), dtype='<f8', external=[(secret, 0, h5py.h5f.UNLIMITED)])
+fifo = os.path.join(outside, 'fifo')
+os.mkfifo(fifo)
+with h5py.File(os.path.join(d, 'external-fifo.nwb'), 'w') as f:
+    g = series(f); g.create_dataset('data', shape=(64,), dtype='<f8', external=[(fifo, 0, h5py.h5f.UNLIMITED)])
 with h5py.File(os.path.join(d, 'external-link.nwb'), 'w') as f:
     f['units'] = h5py.ExternalLink(os.path.join(outside, 'units.h5'), '/units')
 with h5py.File(os.path.join(d, 'virtual.nwb'), 'w') as f:
@@ -119,7 +123,8 @@ with h5py.File(os.path.join(d, 'long-series.nwb'), 'w') as f:
     g.create_dataset('data', shape=(10**10,), dtype='<f4', chunks=(10**6,), compression='gzip')
 `;
 
-describe.skipIf(!hasH5py)('hostile NWB files written by h5py at test time', () => {
+// Each test runs up to two capped children of at most 60 s each.
+describe.skipIf(!hasH5py)('hostile NWB files written by h5py at test time', { timeout: 150_000 }, () => {
   let root = '';
   let files = '';
   beforeAll(() => {
@@ -135,6 +140,12 @@ describe.skipIf(!hasH5py)('hostile NWB files written by h5py at test time', () =
 
   it('refuses HDF5 external storage, naming the raw file, and reads none of it', async () => {
     await expectRefused(root, join(files, 'external-storage.nwb'), [/\/acquisition\/trace\/data/, /external storage/, /secret\.raw/], /12345/);
+  });
+
+  it('refuses external storage that names a FIFO, without waiting on it', async () => {
+    // A reader that opened the FIFO would block until a writer appeared: the 60 s timeout of
+    // capped-run.ts would kill it and this test would fail.
+    await expectRefused(root, join(files, 'external-fifo.nwb'), [/\/acquisition\/trace\/data/, /external storage/, /fifo/]);
   });
 
   it('refuses an external link at /units instead of reading the outside units table', async () => {
@@ -239,7 +250,7 @@ describe.skipIf(!hasH5py)('hostile NWB files written by h5py at test time', () =
   });
 });
 
-describe.skipIf(!hasShared)('hostile NWB files in ../shared/data/hostile-nwb', () => {
+describe.skipIf(!hasShared)('hostile NWB files in ../shared/data/hostile-nwb', { timeout: 150_000 }, () => {
   let root = '';
   beforeAll(() => {
     root = mkdtempSync(join(tmpdir(), 'lacuna-hostile-shared-'));
