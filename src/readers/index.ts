@@ -160,7 +160,7 @@ function unitsOf(ins: FileInspection, ds: ResolvedDataset): number | null {
   return ds.layout === 'units-by-bins' ? ins.shape[0] : ins.shape[1];
 }
 
-async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind: AuditKind, binMs?: number): Promise<FileInspection> {
+async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind: AuditKind, binMs: number): Promise<FileInspection> {
   const bytes = (await stat(path)).size;
   switch (ds.format) {
     case 'npy': {
@@ -205,7 +205,7 @@ async function inspectFile(path: string, rel: string, ds: ResolvedDataset, kind:
     case 'nwb': {
       if (kind === 'weights') throw inputError(rel, 'format', "format 'nwb' holds activity, not weights");
       const { inspectNwb } = await import('./nwb.ts');
-      return inspectNwb(path, rel, ds.series, binMs === undefined ? undefined : { binMs, recordingEndS: ds.recording_end_s ?? null });
+      return inspectNwb(path, rel, ds.series, binMs, ds.recording_end_s ?? null);
     }
     default:
       throw inputError(rel, 'format', `unknown format '${String(ds.format)}'`);

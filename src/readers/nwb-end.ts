@@ -7,7 +7,7 @@
  * `obs_intervals` are honoured by nwb-units.ts. Cost: one pass over each stop_time column in
  * 4 MiB slices; memory O(1).
  */
-import type { File as H5File } from 'h5wasm/node';
+import type { File as H5File } from 'h5wasm';
 import { InputError } from '../errors.ts';
 import { forEachSlice, getDataset, requireNumeric, rowsOf } from './nwb-hdf5.ts';
 

@@ -6,11 +6,17 @@
  * two dimensions — time × channels/ROIs — and a time base).
  *
  * The walk follows hard links only: soft links are skipped (their targets are reached by
- * their own path), external links are never followed, and depth and object count are capped
- * so a cyclic or huge tree cannot hang the reader.
+ * their own path), external and other user-defined links are never followed (they are listed
+ * as passed over, with the reason), a typed group whose columns are virtual datasets is
+ * refused (hdf5-guard.ts), a tree deeper than 64 groups is refused (a hard-link cycle: a
+ * group that contains itself), and the object count is capped so a huge tree cannot hang
+ * the reader.
  */
-import h5wasm from 'h5wasm/node';
-import type { File as H5File, Group } from 'h5wasm/node';
+import h5wasm from 'h5wasm';
+import type { File as H5File, Group } from 'h5wasm';
+import { InputError } from '../errors.ts';
+import { guarded } from './hdf5-sandbox.ts';
+import { linkProblem, relPathOf } from './hdf5-guard.ts';
 import { attrString, dtypeName, getDataset, isNumeric, rowsOf } from './nwb-hdf5.ts';
 
 export interface NwbCandidate {
@@ -72,14 +78,26 @@ function classifySeries(file: H5File, path: string, type: string): NwbCandidate 
 export function findCandidates(file: H5File): { candidates: NwbCandidate[]; skipped: NwbSkipped[] } {
   const candidates: NwbCandidate[] = [];
   const skipped: NwbSkipped[] = [];
+  const relPath = relPathOf(file);
   let visited = 0;
   const walk = (group: Group, path: string, depth: number): void => {
-    if (depth > MAX_DEPTH) return;
-    for (const name of [...group.keys()].sort()) {
+    if (depth > MAX_DEPTH) {
+      throw new InputError(`groups nest more than ${MAX_DEPTH} levels deep here, which in an NWB file means a group that contains itself (a hard-link cycle)`, {
+        file: relPath,
+        where: path.length > 200 ? `${path.slice(0, 200)}…` : path,
+        hint: 'remove the link that makes the cycle',
+      });
+    }
+    for (const name of guarded(relPath, path, () => [...group.keys()]).sort()) {
       if (++visited > MAX_OBJECTS) return;
       const child = join(path, name);
-      if (file.get_link(child) !== null) continue; // soft link: reached by its target's own path
-      const entity = file.get(child);
+      const problem = linkProblem(file, child);
+      if (problem !== null) {
+        skipped.push({ path: child, neurodataType: 'link', reason: `not followed: ${problem}` });
+        continue;
+      }
+      if (guarded(relPath, child, () => file.get_link(child)) !== null) continue; // soft link: reached by its target's own path
+      const entity = guarded(relPath, child, () => file.get(child));
       if (!(entity instanceof h5wasm.Group)) continue;
       const type = attrString(entity, 'neurodata_type');
       let found: NwbCandidate | NwbSkipped | null = null;
@@ -106,8 +124,9 @@ export function describeCandidate(c: NwbCandidate): string {
 /** Top-level names with their kind, for "nothing found" errors: `acquisition/ (group), identifier (dataset)`. */
 export function describeTopLevel(file: H5File): string {
   const parts = [...file.keys()].sort().map((k) => {
-    const e = file.get(`/${k}`);
-    return e instanceof h5wasm.Group ? `${k}/ (group)` : `${k} (dataset)`;
+    if (linkProblem(file, `/${k}`) !== null) return `${k} (external link)`;
+    const e = guarded(relPathOf(file), `/${k}`, () => file.get(`/${k}`));
+    return e instanceof h5wasm.Group ? `${k}/ (group)` : e instanceof h5wasm.Dataset ? `${k} (dataset)` : `${k} (link)`;
   });
   return parts.length ? parts.join(', ') : '(nothing)';
 }

@@ -1,13 +1,17 @@
 /**
  * Small HDF5 helpers for the NWB reader, on top of h5wasm (the HDF5 C library compiled to
  * WebAssembly). Files are untrusted: the HDF5 signature is checked before the library sees
- * the file, every dataset is read in bounded slices (the wasm heap caps at 2 GiB), and
- * external links are never followed.
+ * the file; the library runs in a sandbox that can open this file and no other
+ * (hdf5-sandbox.ts); every object is reached through checked links and refused when it is
+ * virtual or external (hdf5-guard.ts); every read is refused when the library reports an error;
+ * every dataset is read in bounded slices (the wasm heap caps at 2 GiB).
  */
 import { open, stat } from 'node:fs/promises';
-import h5wasm from 'h5wasm/node';
-import type { Dataset, File as H5File, Group } from 'h5wasm/node';
+import h5wasm from 'h5wasm';
+import type { Dataset, File as H5File, Group } from 'h5wasm';
 import { InputError } from '../errors.ts';
+import { closeSandboxed, guarded, openSandboxed } from './hdf5-sandbox.ts';
+import { forgetFile, getChecked, readSlice, registerFile, relPathOf } from './hdf5-guard.ts';
 
 /** Elements per slice when reading 1-D datasets (4 MiB of float64). */
 export const SLICE_ELEMENTS = 1 << 19;
@@ -56,55 +60,50 @@ export async function openHdf5(path: string, relPath: string): Promise<H5File> {
       hint: 'format: nwb expects an NWB 2.x file, which is HDF5',
     });
   }
-  await h5wasm.ready;
-  let file: H5File;
-  try {
-    file = new h5wasm.File(path, 'r');
-  } catch (cause) {
-    throw new InputError('the HDF5 library could not open the file', { file: relPath, cause });
-  }
-  if (typeof file.file_id === 'bigint' && file.file_id < 0n) {
-    throw new InputError('the HDF5 library could not open the file (damaged or truncated HDF5)', { file: relPath });
-  }
+  const file = await openSandboxed(path, relPath);
+  registerFile(file, relPath);
   return file;
 }
 
 /** Close a file, ignoring a second close. */
 export function closeQuietly(file: H5File | null): void {
-  if (!file) return;
-  try {
-    file.close();
-  } catch {
-    /* already closed */
-  }
+  if (file) forgetFile(file);
+  closeSandboxed(file);
 }
 
-/** The object at `path` when it is a dataset (soft links followed by HDF5), else null. */
+/**
+ * The object at `path` when it is a dataset, else null. Links on the way are checked (soft
+ * links followed inside the file; external links and virtual datasets refused, hdf5-guard.ts).
+ */
 export function getDataset(file: H5File, path: string): Dataset | null {
-  const e = file.get(path);
+  const e = getChecked(file, path);
   return e instanceof h5wasm.Dataset ? e : null;
 }
 
 /** The object at `path` when it is a group, else null. */
 export function getGroup(file: H5File, path: string): Group | null {
-  const e = file.get(path);
+  const e = getChecked(file, path);
   return e instanceof h5wasm.Group ? e : null;
+}
+
+/** An attribute's value (undefined when absent), read through the sandbox guard. */
+function readAttr(obj: Dataset | Group, name: string): unknown {
+  return guarded(relPathOf(obj), `${obj.path}@${name}`, () => {
+    const attrs = obj.attrs;
+    return name in attrs ? attrs[name].json_value : undefined;
+  });
 }
 
 /** An attribute as a single string (scalar or one-element array), or null. */
 export function attrString(obj: Dataset | Group, name: string): string | null {
-  const attrs = obj.attrs;
-  if (!(name in attrs)) return null;
-  let v: unknown = attrs[name].json_value;
+  let v = readAttr(obj, name);
   if (Array.isArray(v) && v.length === 1) v = v[0];
   return typeof v === 'string' ? v : null;
 }
 
 /** An attribute as a single number (scalar or one-element array), or null when absent or not numeric. */
 export function attrNumber(obj: Dataset | Group, name: string): number | null {
-  const attrs = obj.attrs;
-  if (!(name in attrs)) return null;
-  let v: unknown = attrs[name].json_value;
+  let v = readAttr(obj, name);
   if (Array.isArray(v) && v.length === 1) v = v[0];
   return typeof v === 'number' ? v : null;
 }
@@ -159,7 +158,7 @@ export function forEachSlice(ds: Dataset, start: number, end: number, onSlice: (
   const buf = new Float64Array(Math.min(SLICE_ELEMENTS, Math.max(0, end - start)));
   for (let a = start; a < end; a += SLICE_ELEMENTS) {
     const b = Math.min(end, a + SLICE_ELEMENTS);
-    const n = copyToFloat64(ds.slice([[a, b]]), buf, 0);
+    const n = copyToFloat64(readSlice(ds, [[a, b]], relPathOf(ds)), buf, 0);
     onSlice(n === buf.length ? buf : buf.subarray(0, n), a);
   }
 }

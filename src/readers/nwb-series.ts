@@ -21,12 +21,14 @@
  * machine: 200,000 samples × 200 float32 channels (160 MB) read in about 1.8 s, of which about
  * 1.1 s is h5wasm slicing.
  */
-import type { Dataset, File as H5File } from 'h5wasm/node';
+import type { Dataset, File as H5File } from 'h5wasm';
 import { InputError } from '../errors.ts';
 import type { Finding, Numeric } from '../types.ts';
 import type { ActivityFile } from './types.ts';
 import { attrNumber, attrString, closeQuietly, copyToFloat64, forEachSlice, getDataset, isNumeric, readRange, requireNumeric, rowsOf, SLICE_BYTES } from './nwb-hdf5.ts';
 import { binOf } from './nwb-time.ts';
+import { readSlice, readValue } from './hdf5-guard.ts';
+import { checkActivityShape } from './memory-budget.ts';
 
 const INTERVAL_SAMPLE = 100_000;
 
@@ -72,7 +74,7 @@ function rateTimeBase(file: H5File, series: string, samples: number, relPath: st
   if (!st) throw new InputError('time series has neither timestamps nor starting_time', { file: relPath, where: series });
   requireNumeric(st, relPath);
   // starting_time is a scalar in NWB; a hyperslab of a scalar is refused by HDF5, so read its value.
-  const t0 = (st.shape ?? []).length === 0 ? Number(st.value) : readRange(st, 0, 1)[0];
+  const t0 = (st.shape ?? []).length === 0 ? Number(readValue(st, relPath)) : readRange(st, 0, 1)[0];
   const rate = attrNumber(st, 'rate');
   if (!Number.isFinite(t0)) throw new InputError(`starting_time ${t0} is not a finite number`, { file: relPath, where: st.path });
   if (rate === null || !Number.isFinite(rate) || rate <= 0) throw new InputError(`starting_time has rate ${rate}; allowed: a positive number (Hz)`, { file: relPath, where: `${st.path}@rate` });
@@ -84,15 +86,17 @@ function sampleBin(base: TimeBase, binMs: number, i: number, t: number): number 
   return base.kind === 'rate' ? binOf((i * 1000) / (base.rate * binMs)) : binOf(((t - base.t0) * 1000) / binMs);
 }
 
-const TILE_BINS = 256;
+/** Bins per tile: 256, fewer when many channels are read at once, so a tile stays near 4 MiB (never less than one bin). */
+const TILE_BINS_MAX = 256;
 
 /**
  * Accumulate samples (time-major, `count` channels each) into bin sums and write bin means to
- * the unit-major `out`, a tile of TILE_BINS bins at a time: a blocked transpose, so neither the
+ * the unit-major `out`, a tile of up to 256 bins at a time: a blocked transpose, so neither the
  * sums nor the writes stride across the whole matrix. Sample bins must be non-decreasing
  * (timestamps are checked ascending at open). Bins with no sample get 0 and missing = 1.
  */
 function tileWriter(count: number, bins: number, perBin: Uint32Array, scale: (mean: number) => number, out: Numeric, outCols: number, colOffset: number, missing?: Uint8Array) {
+  const TILE_BINS = Math.max(1, Math.min(TILE_BINS_MAX, Math.floor(SLICE_BYTES / (8 * count))));
   const tile = new Float64Array(TILE_BINS * count);
   let tileStart = 0;
   const flush = (): void => {
@@ -146,14 +150,18 @@ function refuseFinerBins(intervalMs: number | null, binMs: number, relPath: stri
 
 /**
  * What the build would refuse about a series at `binMs` before reading its samples (for
- * `lacuna check`): a rate-based series' starting_time and rate, a bin width finer than 1000 /
+ * `lacuna check`): the channel count against the memory budget (memory-budget.ts); a rate-based series' starting_time and rate, a bin width finer than 1000 /
  * rate, too many bins; for a series with timestamps, a bin width finer than the median interval
  * of its first 100,001 timestamps (the build's estimate, from at most 800 KB; ill-formed
  * timestamps are left to the build, which reads them all). Throws the build's InputError.
  */
 export function checkSeriesHeader(file: H5File, series: string, binMs: number, relPath: string): void {
   const data = getDataset(file, `${series}/data`);
-  const samples = data?.shape?.[0] ?? 0;
+  if (!data) return;
+  const shape = data.shape ?? [];
+  const samples = shape[0] ?? 0;
+  const channels = shape.length === 2 ? shape[1] : 1;
+  checkActivityShape({ units: channels, bins: 0, binMs, file: relPath, where: data.path });
   if (samples === 0) return;
   const ts = getDataset(file, `${series}/timestamps`);
   if (ts) {
@@ -168,7 +176,7 @@ export function checkSeriesHeader(file: H5File, series: string, binMs: number, r
     return;
   }
   const { base, intervalMs, lastT } = rateTimeBase(file, series, samples, relPath);
-  binsFor(base, intervalMs, lastT, binMs, relPath, series);
+  checkActivityShape({ units: channels, bins: binsFor(base, intervalMs, lastT, binMs, relPath, series), binMs, file: relPath, where: series });
 }
 
 /** Open the time series at `series` as an ActivityFile. Takes ownership of `file` (closed by `close()`). */
@@ -187,8 +195,10 @@ export function openTimeSeries(file: H5File, series: string, neurodataType: stri
   if (!Number.isFinite(conversion) || !Number.isFinite(offset)) throw new InputError(`data has conversion ${conversion} and offset ${offset}; both must be finite numbers`, { file: relPath, where: data.path });
   const valueUnit = attrString(data, 'unit') ?? 'unknown';
 
+  checkActivityShape({ units: channels, bins: 0, binMs, file: relPath, where: data.path });
   const { base, intervalMs, lastT } = readTimeBase(file, series, samples, relPath);
   const bins = binsFor(base, intervalMs, lastT, binMs, relPath, series);
+  checkActivityShape({ units: channels, bins, binMs, file: relPath, where: series });
 
   // Samples per bin, shared by every channel.
   const perBin = new Uint32Array(bins);
@@ -246,9 +256,9 @@ export function openTimeSeries(file: H5File, series: string, neurodataType: stri
       const tiles = tileWriter(count, bins, perBin, (v) => v * conversion + offset, out, outCols, colOffset, missing);
       for (let a = 0; a < samples; a += rows) {
         const b = Math.min(samples, a + rows);
-        const raw = shape.length === 2 ? data.slice([[a, b], [unitStart, unitStart + count]]) : data.slice([[a, b]]);
+        const raw = readSlice(data, shape.length === 2 ? [[a, b], [unitStart, unitStart + count]] : [[a, b]], relPath);
         copyToFloat64(raw, vals, 0);
-        if (times && base.kind === 'timestamps') copyToFloat64(base.ds.slice([[a, b]]), times, 0);
+        if (times && base.kind === 'timestamps') copyToFloat64(readSlice(base.ds, [[a, b]], relPath), times, 0);
         for (let i = a; i < b; i++) tiles.add(sampleBin(base, binMs, i, times ? times[i - a] : 0), vals, (i - a) * count);
       }
       tiles.finish();

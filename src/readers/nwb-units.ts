@@ -25,11 +25,14 @@
  * column; spike times negative or not finite; interval ends before its start.
  * Cost at open: one pass over spike_times in 4 MiB slices; memory O(units + intervals).
  */
-import type { File as H5File, Dataset } from 'h5wasm/node';
+import type { File as H5File, Dataset } from 'h5wasm';
 import { InputError } from '../errors.ts';
 import type { Finding, Numeric } from '../types.ts';
 import type { ActivityFile } from './types.ts';
 import { closeQuietly, copyToFloat64, forEachSlice, getDataset, readRange, requireNumeric, rowsOf, SLICE_ELEMENTS } from './nwb-hdf5.ts';
+import { readSlice } from './hdf5-guard.ts';
+import { idProblem, readUnitLabels } from './nwb-ids.ts';
+import { BYTES_PER_UNIT, checkActivityShape, checkClaimedBytes } from './memory-budget.ts';
 import { binOf, binsToCover, coveredBins, inRanges, mergeRanges } from './nwb-time.ts';
 import { pushAll } from '../util/arrays.ts';
 import { statedRecordingEnd } from './nwb-end.ts';
@@ -61,11 +64,12 @@ function observedRanges(file: H5File, table: string, units: number, binMs: numbe
   if (shape.length !== 2 || shape[1] !== 2) throw new InputError(`obs_intervals has shape [${shape.join(', ')}]; allowed: [n, 2] (start, end)`, { file: relPath, where: iv.path });
   const ixDs = getDataset(file, `${table}/obs_intervals_index`);
   if (!ixDs) throw new InputError('obs_intervals has no obs_intervals_index, so its rows cannot be assigned to units', { file: relPath, where: iv.path });
+  if (rowsOf(ixDs) !== units) throw new InputError(`obs_intervals_index has ${rowsOf(ixDs)} rows but the table has ${units} units`, { file: relPath, where: ixDs.path });
+  checkClaimedBytes(units * BYTES_PER_UNIT + shape[0] * 16, `obs_intervals of ${shape[0]} rows (16 B each) beside ${units} units`, relPath, iv.path);
   const index = readIndex(ixDs, shape[0], relPath);
-  if (index.length !== units) throw new InputError(`obs_intervals_index has ${index.length} rows but the table has ${units} units`, { file: relPath, where: ixDs.path });
   const flat = new Float64Array(shape[0] * 2);
   const rows = SLICE_ELEMENTS / 2;
-  for (let a = 0; a < shape[0]; a += rows) copyToFloat64(iv.slice([[a, Math.min(shape[0], a + rows)], [0, 2]]), flat, 2 * a);
+  for (let a = 0; a < shape[0]; a += rows) copyToFloat64(readSlice(iv, [[a, Math.min(shape[0], a + rows)], [0, 2]], relPath), flat, 2 * a);
   const out: number[] = [];
   const offsets = new Int32Array(units + 1);
   for (let u = 0; u < units; u++) {
@@ -83,6 +87,29 @@ function observedRanges(file: H5File, table: string, units: number, binMs: numbe
   return { ranges: Float64Array.from(out), offsets };
 }
 
+/**
+ * The checks on a units table that need its headers only (shared by `lacuna check` and the
+ * build, so both refuse with the same message): the declared unit count against the memory
+ * budget (memory-budget.ts), before any column is read, and the id column's type.
+ */
+export function checkUnitsHeader(file: H5File, table: string, binMs: number, relPath: string): void {
+  const indexDs = getDataset(file, `${table}/spike_times_index`);
+  if (indexDs) checkActivityShape({ units: rowsOf(indexDs), bins: 0, binMs, file: relPath, where: indexDs.path });
+  const idDs = getDataset(file, `${table}/id`);
+  const problem = idDs ? idProblem(idDs) : null;
+  if (idDs && problem) throw new InputError(problem, { file: relPath, where: idDs.path });
+}
+
+/**
+ * For `lacuna check`: read and validate `spike_times_index` (O(units) numbers, already bounded
+ * by the budget) with the same function and message as the build.
+ */
+export function checkUnitsIndex(file: H5File, table: string, relPath: string): void {
+  const spikes = getDataset(file, `${table}/spike_times`);
+  const indexDs = getDataset(file, `${table}/spike_times_index`);
+  if (spikes && indexDs) readIndex(indexDs, rowsOf(spikes), relPath);
+}
+
 /** Open the units table at `table` as an ActivityFile. Takes ownership of `file` (closed by `close()`). */
 export function openUnitsTable(file: H5File, table: string, opts: { path: string; relPath: string; binMs: number; recordingEndS?: number | null }): ActivityFile {
   const { relPath, binMs } = opts;
@@ -91,6 +118,7 @@ export function openUnitsTable(file: H5File, table: string, opts: { path: string
   if (!spikes || !indexDs) throw new InputError('units table needs spike_times and spike_times_index', { file: relPath, where: table });
   requireNumeric(spikes, relPath);
   const nSpikes = rowsOf(spikes);
+  checkUnitsHeader(file, table, binMs, relPath);
   const index = readIndex(indexDs, nSpikes, relPath);
   const units = index.length;
   if (units === 0) throw new InputError('units table has no units (spike_times_index is empty)', { file: relPath, where: indexDs.path });
@@ -98,10 +126,8 @@ export function openUnitsTable(file: H5File, table: string, opts: { path: string
   const idDs = getDataset(file, `${table}/id`);
   let unitLabels: string[];
   if (idDs) {
-    requireNumeric(idDs, relPath);
-    const ids = readRange(idDs, 0, rowsOf(idDs));
-    if (ids.length !== units) throw new InputError(`id has ${ids.length} rows but spike_times_index has ${units}`, { file: relPath, where: idDs.path });
-    unitLabels = Array.from(ids, String);
+    if (rowsOf(idDs) !== units) throw new InputError(`id has ${rowsOf(idDs)} rows but spike_times_index has ${units}`, { file: relPath, where: idDs.path });
+    unitLabels = readUnitLabels(idDs, units, relPath);
   } else unitLabels = Array.from({ length: units }, (_, i) => String(i));
 
   const obs = observedRanges(file, table, units, binMs, relPath);
@@ -146,6 +172,7 @@ export function openUnitsTable(file: H5File, table: string, opts: { path: string
   if (fixedEnd !== null) (bins = endBins as number), (endFrom = `the manifest's recording_end_s (${fixedEnd} s)`);
   else if (stated && (endBins as number) >= bins) (bins = endBins as number), (endFrom = `${stated.source} (${stated.seconds} s)`);
   if (bins <= 0) throw new InputError('units table has no spikes and no observation intervals, so there is no time span to bin', { file: relPath, where: table });
+  checkActivityShape({ units, bins, binMs, file: relPath, where: spikes.path });
   if (bins > MAX_BINS) throw new InputError(`binning at ${binMs} ms up to ${((bins * binMs) / 1000).toFixed(3)} s gives ${bins} bins, more than ${MAX_BINS}`, { file: relPath, where: spikes.path, hint: 'raise bin_ms' });
 
   const findings: Finding[] = [];

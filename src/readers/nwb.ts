@@ -11,13 +11,14 @@
  * `close()`) or closes it before throwing.
  */
 import { stat } from 'node:fs/promises';
-import type { File as H5File } from 'h5wasm/node';
+import type { File as H5File } from 'h5wasm';
 import { InputError } from '../errors.ts';
 import type { ActivityFile, FileInspection } from './types.ts';
 import { closeQuietly, openHdf5 } from './nwb-hdf5.ts';
 import { describeCandidate, describeTopLevel, findCandidates, type NwbCandidate } from './nwb-find.ts';
 import { openUnitsTable } from './nwb-units.ts';
-import { checkSeriesHeader, openTimeSeries } from './nwb-series.ts';
+import { openTimeSeries } from './nwb-series.ts';
+import { checkCandidate } from './nwb-inspect.ts';
 
 export type { NwbCandidate } from './nwb-find.ts';
 
@@ -93,19 +94,18 @@ export async function openNwbActivity(path: string, opts: { binMs: number; serie
  * times or samples are read): the chosen candidate's shape and dtype, and every candidate as
  * `parts` (name = HDF5 path, dtype = `<neurodata_type> <dtype>`). Units tables have shape
  * [units] — their bin count depends on the spike times. `path` is `relPath`, as the other
- * readers' inspections give it. Same InputErrors as opening; with `at` (the audit's bin_ms and
- * the dataset's recording_end_s) also every refusal the build would make from headers alone
- * (`checkSeriesHeader`), with the build's message.
+ * readers' inspections give it. Same InputErrors as opening; also every refusal the build would
+ * make from headers alone (the bin width against the sampling interval, `recording_end_s` on a
+ * series, the memory budget), with the build's message, and a one-element probe of each dataset
+ * the build reads (nwb-inspect.ts).
  */
-export async function inspectNwb(path: string, relPath: string, series: string | null, at?: { binMs: number; recordingEndS: number | null }): Promise<FileInspection> {
+export async function inspectNwb(path: string, relPath: string, series: string | null, binMs: number, recordingEndS: number | null = null): Promise<FileInspection> {
+  checkBinMs(binMs, relPath);
   const file = await openHdf5(path, relPath);
   try {
     const c = choose(file, relPath, series);
-    if (at) {
-      checkBinMs(at.binMs, relPath);
-      refuseEndForSeries(c, relPath, at.recordingEndS);
-      if (c.kind !== 'units') checkSeriesHeader(file, c.path, at.binMs, relPath);
-    }
+    refuseEndForSeries(c, relPath, recordingEndS);
+    checkCandidate(file, c, binMs, relPath);
     const { candidates } = findCandidates(file);
     return {
       path: relPath,

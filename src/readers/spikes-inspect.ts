@@ -1,22 +1,25 @@
 /**
  * Header check of a spike-time table for `lacuna check`: reads only the first 1 MiB, and reports
- * a missing `unit`/`time` column or a bad `# duration_s:` line (spikes.ts has the format).
+ * a missing `unit`/`time` column or a bad `# duration_s:` line, or one that makes more bins than
+ * the build allows (spikes.ts has the format).
  */
 import { inputError } from './byte-source.ts';
 import { cellNumber, splitCells } from './table-text.ts';
 import { textLines } from './text-lines.ts';
 import { binsToCover } from './nwb-time.ts';
+import { checkActivityShape } from './memory-budget.ts';
 
 const MAX_BINS = 2 ** 31 - 1;
 
 /**
  * Bins that cover a stated duration at `binMs`: ⌈X / w⌉ (edge tolerance as in nwb-time.ts); an
- * InputError when that passes 2^31 − 1. Shared by the build (spikes.ts) and `lacuna check`, so
+ * InputError when that passes 2^31 − 1 or the memory budget (memory-budget.ts). Shared by the build (spikes.ts) and `lacuna check`, so
  * both refuse with the same words.
  */
 export function durationBins(d: number, binMs: number, relPath: string, line: number): number {
   const bins = binsToCover((d * 1000) / binMs);
   if (bins > MAX_BINS) throw inputError(relPath, `row ${line}`, `duration_s ${d} at ${binMs} ms makes more than ${MAX_BINS} bins`);
+  checkActivityShape({ units: 0, bins, binMs, file: relPath, where: `row ${line}` });
   return bins;
 }
 

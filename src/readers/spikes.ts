@@ -21,6 +21,7 @@ import { inputError } from './byte-source.ts';
 import { cellNumber, splitCells } from './table-text.ts';
 import { textLines } from './text-lines.ts';
 import { durationBins, durationComment } from './spikes-inspect.ts';
+import { checkActivityShape, maxBinsFor } from './memory-budget.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
 import { binOf as binOfQuotient, EDGE_TOLERANCE } from './nwb-time.ts';
 
@@ -67,6 +68,8 @@ export async function openSpikeTable(path: string, relPath: string, delim: strin
   let spikeBin = new Int32Array(1024);
   let n = 0;
   let maxBin = -1;
+  let maxBinRow = 0;
+  const binLimit = maxBinsFor(0); // memory budget: refuse at the row that passes it
   for await (const [line, text] of textLines(path, relPath)) {
     if (text.trimStart().startsWith('#')) {
       const d = unitCol < 0 ? durationComment(text, relPath, line) : null;
@@ -102,6 +105,7 @@ export async function openSpikeTable(path: string, relPath: string, delim: strin
       throw inputError(relPath, `row ${line}, column ${timeCol + 1}`, `time ${t} s is at or after the stated duration_s ${duration}`);
     }
     if (b >= MAX_BINS) throw inputError(relPath, `row ${line}, column ${timeCol + 1}`, `time ${t} s at ${binMs} ms bins makes more than ${MAX_BINS} bins`);
+    if (b >= binLimit) checkActivityShape({ units: 0, bins: b + 1, binMs, file: relPath, where: `row ${line}, column ${timeCol + 1}` });
     let u = labelIndex.get(label);
     if (u === undefined) labelIndex.set(label, (u = labelIndex.size));
     if (n === spikeUnit.length) {
@@ -111,7 +115,10 @@ export async function openSpikeTable(path: string, relPath: string, delim: strin
     spikeUnit[n] = u;
     spikeBin[n] = b;
     n++;
-    if (b > maxBin) maxBin = b;
+    if (b > maxBin) {
+      maxBin = b;
+      maxBinRow = line;
+    }
   }
   if (unitCol < 0) throw inputError(relPath, 'row 1', "file is empty; expected a header naming 'unit' and 'time' columns");
   if (n === 0) throw inputError(relPath, 'row 2', 'spike table has a header but no spikes; no units can be formed');
@@ -143,6 +150,7 @@ export async function openSpikeTable(path: string, relPath: string, delim: strin
     });
   }
   const units = labels.length;
+  checkActivityShape({ units, bins, binMs, file: relPath, where: `row ${maxBinRow}` });
   return {
     path, units, bins, binMs, findings, hasMissing: false, unitLabels: labels,
     precision: n < 2 ** 24 ? 'f32' : 'f64', reusableAfterClose: true,

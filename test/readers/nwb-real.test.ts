@@ -25,7 +25,7 @@ describe.skipIf(!present)('NWB units table written by the reference software (un
   it('finds the table at /acquisition/UnitsTest by neurodata_type, not at /units', async () => {
     // Source: shared/data/nwb/README.md ("a units table at /acquisition/UnitsTest — not at /units").
     expect(await listNwbCandidates(UNITS)).toEqual([{ path: '/acquisition/UnitsTest', neurodataType: 'Units', shape: [2] }]);
-    const insp = await inspectNwb(UNITS, 'units-table.nwb', null);
+    const insp = await inspectNwb(UNITS, 'units-table.nwb', null, 1000);
     expect(insp.shape).toEqual([2]);
     expect(insp.bytes).toBe(19304); // `ls -l` of the file
   });
