@@ -30,6 +30,7 @@ import { inputError } from './byte-source.ts';
 import { openNpyActivity, openNpyFile, readNpyTensor } from './npy.ts';
 import { sampleBinner } from './sample-bins.ts';
 import { maxOf, minOf } from '../util/arrays.ts';
+import { checkActivityShape } from './memory-budget.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
 
 const SCRATCH_BYTES = 8 << 20;
@@ -165,6 +166,7 @@ export async function openImagingFolder(files: string[], relFiles: string[], s: 
         file: planes[0].rel, where: 'bin_ms', hint: `set bin_ms to ${Number(frameMs.toPrecision(12))} or a multiple of it`,
       });
     }
+    checkActivityShape({ units, bins: binner.binOf(frames - 1) + 1, binMs, file: planes[0].rel, where: 'frames' });
     const binOfFrame = new Int32Array(frames);
     for (let i = 0; i < frames; i++) binOfFrame[i] = binner.binOf(i);
     const bins = binOfFrame[frames - 1] + 1;

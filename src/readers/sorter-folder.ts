@@ -33,6 +33,7 @@ import { readNpyHeader, type NpyHeader } from './npy-header.ts';
 import { readSorterParams } from './sorter-params.ts';
 import { LABEL_TABLES, mergeLabels, readLabelTable, type LabelTable } from './sorter-labels.ts';
 import { sampleBinner, type SampleBinner } from './sample-bins.ts';
+import { checkActivityShape } from './memory-budget.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
 import { stat } from 'node:fs/promises';
 
@@ -184,7 +185,8 @@ async function closeArrays(h: SorterHeaders): Promise<void> {
 export async function inspectSorterFolder(files: string[], relFiles: string[], settings: SorterSettings, binMs: number): Promise<{ spikes: number; dtype: string; rate: number }> {
   const h = await sorterHeaders(files, relFiles, settings);
   await closeArrays(h);
-  sampleBinner(binMs, h.rate);
+  const binner = sampleBinner(binMs, h.rate);
+  if (settings.duration_s !== null) checkActivityShape({ units: 0, bins: binner.binsFor(settings.duration_s), binMs, file: h.t.rel, where: 'sorter.duration_s' });
   return { spikes: h.t.n, dtype: h.t.h.dtype.name, rate: h.rate };
 }
 
@@ -268,6 +270,7 @@ export async function openSorterFolder(files: string[], relFiles: string[], sett
       findings.push({ level: 'notice', code: 'duration-from-last-spike', message: `No sorter.duration_s in the manifest, so the recording was taken to end in the bin of the last spike (${plural(bins, 'bin')} of ${binMs} ms); silence after it is not counted.`, where: [t.rel], count: 1 });
     }
     if (bins > MAX_BINS) throw inputError(t.rel, 'last spike', `${bins} bins of ${binMs} ms; allowed: at most ${MAX_BINS}`, 'use a larger bin_ms');
+    checkActivityShape({ units: unitIds.length, bins, binMs, file: t.rel, where: settings.duration_s !== null ? 'sorter.duration_s' : 'last spike' });
     // 5.
     const row = new Map<number, number>();
     unitIds.forEach((id, u) => row.set(id, u));

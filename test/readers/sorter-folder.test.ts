@@ -198,6 +198,18 @@ print(json.dumps(0))`, { dir });
     expect(problems.map((p) => p.message)).toEqual([err.message]);
   });
 
+  it('refuses a tiny folder whose last spike claims more bins than memory allows, before allocating them', async () => {
+    const { ws, dir } = workspace('{ id: far, path: ../data/sort }');
+    // One spike at sample 3·10¹⁰ (about 11.6 days at 30 kHz): 10⁸ bins of 10 ms, 25.6 GB of
+    // per-bin state at 256 B a bin (src/readers/memory-budget.ts), over a quarter of any laptop.
+    writeFolder(dir, { spikes: [[5, 1], [30_000_000_000, 1]], labels: [[1, 'good']], params: PARAMS });
+    const err = (await open(ws).catch((e: unknown) => e)) as Error & { file?: string; where?: string };
+    expect(err.name).toBe('InputError');
+    expect(err.file).toBe('data/sort/spike_times.npy');
+    expect(err.where).toBe('last spike');
+    expect(err.message).toContain('1 units × 100000001 bins of 10 ms would need about 26 GB');
+  });
+
   it('flags unsorted spike times and clusters with spikes but no label', async () => {
     const { ws, dir } = workspace('{ id: u, path: ../data/sort }');
     writeFolder(dir, { spikes: [[5, 1], [900, 1], [1200, 2], [3000, 1]], labels: [[1, 'good']], params: PARAMS, shuffle: true });
