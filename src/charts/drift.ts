@@ -6,8 +6,8 @@
  * and a text label, thin months by a hollow square and a label — colour is never the only cue.
  */
 import type { ChartSpec, DriftResult, DriftSeries } from '../types.ts';
-import { fmt, frame, measureLabel, slug } from './format.ts';
-import { ROLE } from './theme.ts';
+import { fmt, frame, measureLabel, pct, slug } from './format.ts';
+import { CHART_WIDTH, ROLE } from './theme.ts';
 
 const STATUS = ['in control', 'thin month', 'signal'] as const;
 const STATUS_SHAPE = ['circle', 'square', 'triangle-up'];
@@ -31,7 +31,7 @@ function describe(s: DriftSeries, drift: DriftResult): string {
   const thin = pts.filter((p) => p.thin).map((p) => p.month);
   if (thin.length) parts.push(`Thin months (too few units or bins): ${thin.join(', ')}.`);
   if (s.mannKendall) parts.push(`Mann–Kendall z = ${fmt(s.mannKendall.z)}, p = ${fmt(s.mannKendall.p)}${s.pAdjusted !== null ? `, adjusted p (${drift.adjustment}) = ${fmt(s.pAdjusted)}` : ''}.`);
-  if (s.theilSen) parts.push(`Theil–Sen slope ${fmt(s.theilSen.slope)} per month (${fmt(s.theilSen.level * 100, 4)}% CI ${fmt(s.theilSen.lower)} to ${fmt(s.theilSen.upper)}).`);
+  if (s.theilSen) parts.push(`Theil–Sen slope ${fmt(s.theilSen.slope)} per month (${pct(s.theilSen.level)} CI ${fmt(s.theilSen.lower)} to ${fmt(s.theilSen.upper)}).`);
   return parts.join(' ');
 }
 
@@ -57,13 +57,8 @@ export function driftSeriesChart(s: DriftSeries, drift: DriftResult): ChartSpec 
   const layers: Record<string, unknown>[] = [];
   if (s.baseline) {
     const b = { mean: s.baseline.mean, sd: s.baseline.sd, low: s.baseline.mean - s.baseline.sd, high: s.baseline.mean + s.baseline.sd, label: 'baseline mean ± 1 SD' };
-    layers.push({ data: { values: [b] }, mark: { type: 'rect', color: ROLE.baseline, opacity: 0.22 }, encoding: { y: { ...y, field: 'low' }, y2: { field: 'high' } } });
-    layers.push({ data: { values: [b] }, mark: { type: 'rule', color: ROLE.baseline, strokeWidth: 1.2 }, encoding: { y: { ...y, field: 'mean' } } });
-    layers.push({
-      data: { values: [b] },
-      mark: { type: 'text', align: 'left', baseline: 'bottom', dx: 2, dy: -2, color: ROLE.muted },
-      encoding: { y: { ...y, field: 'high' }, x: { value: 0 }, text: { field: 'label', type: 'nominal' } },
-    });
+    layers.push({ data: { values: [b] }, mark: { type: 'rect', color: ROLE.baseline, opacity: 0.6 }, encoding: { y: { ...y, field: 'low' }, y2: { field: 'high' } } });
+    layers.push({ data: { values: [b] }, mark: { type: 'rule', color: ROLE.muted, strokeWidth: 1 }, encoding: { y: { ...y, field: 'mean' } } });
   }
   const pointData = { data: { values: rows } };
   if (s.chart === 'ewma' && rows.some((r) => r.chartValue !== null || r.chartUpper !== null || r.chartLower !== null)) {
@@ -127,7 +122,7 @@ export function driftSeriesChart(s: DriftSeries, drift: DriftResult): ChartSpec 
   const subtitle = `${s.chart === 'ewma' ? 'EWMA' : 'CUSUM'} screening · bars: bootstrap intervals · grey band: baseline mean ± 1 SD`;
   if (s.chart === 'ewma') return { id, title, description, datasetId: null, spec: frame(title, description, main, { subtitle }) };
   const cusum = {
-    width: 520,
+    width: CHART_WIDTH,
     height: 110,
     data: { values: rows },
     transform: [{ fold: ['chartValue', 'chartUpper', 'chartLower'], as: ['line', 'value'] }, { filter: 'isValid(datum.value)' }],
@@ -145,15 +140,15 @@ export function driftSeriesChart(s: DriftSeries, drift: DriftResult): ChartSpec 
     hLimit === null
       ? cusum
       : {
-          width: 520,
+          width: CHART_WIDTH,
           height: 110,
           layer: [
             cusumLayer,
-            { data: { values: [{ h: hLimit, label: `H = ${hLimit.toPrecision(3)}` }] }, mark: { type: 'rule', strokeDash: [6, 2], color: ROLE.limit }, encoding: { y: { field: 'h', type: 'quantitative' } } },
-            { data: { values: [{ h: hLimit, label: `decision interval H = ${hLimit.toPrecision(3)}` }] }, mark: { type: 'text', align: 'left', dx: 4, dy: -6, fontSize: 10 }, encoding: { x: { value: 0 }, y: { field: 'h', type: 'quantitative' }, text: { field: 'label', type: 'nominal' } } },
+            { data: { values: [{ h: hLimit, label: `H = ${fmt(hLimit)}` }] }, mark: { type: 'rule', strokeDash: [6, 2], color: ROLE.limit }, encoding: { y: { field: 'h', type: 'quantitative' } } },
+            { data: { values: [{ h: hLimit, label: `decision interval H = ${fmt(hLimit)}` }] }, mark: { type: 'text', align: 'left', dx: 4, dy: -6 }, encoding: { x: { value: 0 }, y: { field: 'h', type: 'quantitative' }, text: { field: 'label', type: 'nominal' } } },
           ],
         };
-  const spec = { vconcat: [{ width: 520, height: 200, ...main }, cusumPanel], resolve: { scale: { strokeDash: 'independent', shape: 'independent', color: 'independent' } } };
+  const spec = { vconcat: [{ width: CHART_WIDTH, height: 200, ...main }, cusumPanel], resolve: { scale: { strokeDash: 'independent', shape: 'independent', color: 'independent' } } };
   return { id, title, description, datasetId: null, spec: frame(title, description, spec, { noSize: true, subtitle }) };
 }
 
