@@ -209,3 +209,16 @@ function maxPerRow(rows: AcrossDatasetsRow[]): number {
   }
   return most;
 }
+
+/**
+ * One across-datasets chart per measure present (`acrossDatasetsMeasures` order), for a version
+ * page. Not part of `buildCharts`: the page decides where they go.
+ */
+export function acrossDatasetsCharts(datasets: DatasetResult[], options: AcrossDatasetsOptions = {}): ChartSpec[] {
+  const out: ChartSpec[] = [];
+  for (const m of acrossDatasetsMeasures(datasets)) {
+    const c = acrossDatasetsChart(datasets, m, options);
+    if (c) out.push(c);
+  }
+  return out;
+}

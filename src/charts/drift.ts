@@ -3,11 +3,11 @@
  * intervals (our bounds), the baseline band (baseline mean ± 1 SD) and mean, the EWMA
  * statistic and its control limits (Roberts 1959) on the same scale, or for CUSUM (Page 1954)
  * a second panel with the chart statistics. Flagged months are marked by SHAPE (a triangle)
- * and a text label, thin months by a hollow square and a label — colour is never the only cue.
+ * and a text label in the margin above their column (never over data), thin months by a hollow square and a label — colour is never the only cue.
  */
 import type { ChartSpec, DriftResult, DriftSeries } from '../types.ts';
 import { fmt, frame, measureLabel, pct, slug } from './format.ts';
-import { CHART_WIDTH, ROLE } from './theme.ts';
+import { CHART_WIDTH, estimateTextWidth, ROLE, TYPE } from './theme.ts';
 
 const STATUS = ['in control', 'thin month', 'signal'] as const;
 const STATUS_SHAPE = ['circle', 'square', 'triangle-up'];
@@ -52,7 +52,7 @@ export function driftSeriesChart(s: DriftSeries, drift: DriftResult): ChartSpec 
     chartLower: p.chartLower ?? null,
     chartLimit: p.chartLimit ?? null,
   }));
-  const x = { field: 'month', type: 'ordinal', title: 'month', scale: { domain: months }, axis: { labelAngle: months.length > 8 ? -40 : 0 } };
+  const x = { field: 'month', type: 'ordinal', title: 'month', scale: { domain: months }, axis: { labelAngle: months.length * (estimateTextWidth('2026-01', TYPE.label) + 4) > CHART_WIDTH ? -40 : 0 } };
   const y = { type: 'quantitative', title: measureLabel(s.measure), scale: { zero: false } };
   const layers: Record<string, unknown>[] = [];
   if (s.baseline) {
@@ -105,9 +105,10 @@ export function driftSeriesChart(s: DriftSeries, drift: DriftResult): ChartSpec 
   });
   if (rows.some((r) => r.flag !== '' && r.estimate !== null)) layers.push({
     ...pointData,
-    transform: [{ filter: "datum.flag !== '' && isValid(datum.estimate)" }, { calculate: 'isValid(datum.upper) ? datum.upper : datum.estimate', as: 'top' }],
-    mark: { type: 'text', baseline: 'bottom', dy: -6, fontWeight: 600, color: ROLE.ink },
-    encoding: { x, y: { ...y, field: 'top' }, text: { field: 'flag', type: 'nominal' } },
+    // In the margin above the plot, over the month's column: the word never covers data.
+    transform: [{ filter: "datum.flag !== '' && isValid(datum.estimate)" }],
+    mark: { type: 'text', baseline: 'bottom', dy: -4, fontWeight: 600, color: ROLE.ink },
+    encoding: { x, y: { value: 0 }, text: { field: 'flag', type: 'nominal' } },
   });
   if (rows.some((r) => r.estimate === null)) layers.push({
     ...pointData,

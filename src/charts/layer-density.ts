@@ -38,7 +38,7 @@ export function layerDensityChart(ds: DatasetResult): ChartSpec | null {
     // The rule only: its value is in the subtitle, where it covers no bar.
     layers.push({ data: { values: [{ estimate: overall.estimate }] }, mark: { type: 'rule', color: ROLE.estimate, strokeDash: [5, 3], strokeWidth: 1.5 }, encoding: { y: { field: 'estimate', type: 'quantitative' } } });
   }
-  const subtitle = `bars: density of each layer, value above${overall && overall.estimate !== null ? ` · dashed line: all layers, ${fmt(overall.estimate)}` : ''}`;
+  const subtitle = `bars: each layer's density${overall && overall.estimate !== null ? ` · dashed line: all layers, ${fmt(overall.estimate)}` : ''}`;
   const title = `Density per layer — ${ds.id}`;
   const description =
     `Density (fraction of elements above the zero tolerance) of ${rows.length} layers of ${ds.id}: ` +

@@ -68,7 +68,7 @@ export const ESTIMATE_SHAPE = 'diamond';
 export const FONT = 'system-ui, -apple-system, "Segoe UI", "Noto Sans", "DejaVu Sans", Arial, sans-serif';
 
 /** Type sizes in SVG px (see SVG_WIDTH for why these sizes are legible on a phone). */
-export const TYPE = { title: 15, subtitle: 12, label: 12, axisTitle: 12 } as const;
+export const TYPE = { title: 14, subtitle: 12, label: 12, axisTitle: 12 } as const;
 
 /**
  * Width budget of a whole chart SVG in px, axes, legend and titles included. A page scales the

@@ -6,7 +6,7 @@
  * is worked out by hand beside the check.
  */
 import { describe, expect, it } from 'vitest';
-import { acrossDatasetsChart, acrossDatasetsMeasures, acrossDatasetsRows, NO_GROUP } from '../../src/charts/across-datasets.ts';
+import { acrossDatasetsChart, acrossDatasetsCharts, acrossDatasetsMeasures, acrossDatasetsRows, NO_GROUP } from '../../src/charts/across-datasets.ts';
 import { compileToVega, renderChartSvg } from '../../src/charts/render.ts';
 import type { AuditResult, DatasetResult } from '../../src/types.ts';
 import { activityFixture } from '../fixtures/audit-result.ts';
@@ -126,5 +126,17 @@ describe('acrossDatasetsChart', () => {
     const svg = await renderChartSvg(c, { logger: { warn: (m) => expect.fail(m) } });
     expect(svg).toContain('no estimate');
     expect(svg).not.toContain('role-legend'); // one group: nothing to tell apart
+  });
+
+  it('one chart per measure present, each narrow enough for a phone even with long dataset ids', async () => {
+    const ds = fourDatasets();
+    ds[0]!.id = 'a-very-long-dataset-identifier-from-a-lab-2024-01';
+    const charts = acrossDatasetsCharts(ds);
+    expect(charts.map((c) => c.id)).toEqual(acrossDatasetsMeasures(ds).map((m) => `across--${m.replace(/_/g, '-')}`));
+    // 12 px text at 362 / width ≥ 10 px needs width ≤ 434 px (the phone column, test/browser/phone.test.ts).
+    for (const c of charts) {
+      const svg = await renderChartSvg(c, { logger: { warn: (m) => expect.fail(m) } });
+      expect(Number(svg.match(/^<svg[^>]*\swidth="(\d+(?:\.\d+)?)"/)![1])).toBeLessThanOrEqual(434);
+    }
   });
 });
