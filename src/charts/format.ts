@@ -49,9 +49,12 @@ const LABELS: Record<MeasureName, string> = {
   graph_density: 'graph density',
 };
 
+/** Labels of event-only measures (shown after "event "). */
+const EVENT_LABELS: Record<string, string> = { l0: 'count (L0)' };
+
 /** Human label of a measure name. */
 export function measureLabel(name: MeasureName | string): string {
-  return (LABELS as Record<string, string>)[name] ?? name.replace(/_/g, ' ');
+  return (LABELS as Record<string, string>)[name] ?? EVENT_LABELS[name] ?? name.replace(/_/g, ' ');
 }
 
 /** A stable, id-safe slug: lower case letters, digits and single hyphens. */
