@@ -69,7 +69,9 @@ export function populationSparsenessChart(ds: DatasetResult, options: { events?:
   if (m.estimate !== null) {
     // 2. The rule only: its value is written in the subtitle, where it covers no data.
     const est = { data: { values: [{ estimate: m.estimate }] } };
-    layers.push({ ...est, mark: { type: 'rule', color: ROLE.estimate, strokeWidth: 1.5, strokeDash: [5, 3] }, encoding: { y: { ...y, field: 'estimate' } } });
+    // A paper-coloured halo under the dashed rule keeps it visible over a dense data line (and in greyscale).
+    layers.push({ ...est, mark: { type: 'rule', color: ROLE.paper, strokeWidth: 4.5, opacity: 0.9 }, encoding: { y: { ...y, field: 'estimate' } } });
+    layers.push({ ...est, mark: { type: 'rule', color: ROLE.estimate, strokeWidth: 2, strokeDash: [6, 3] }, encoding: { y: { ...y, field: 'estimate' } } });
   }
   const empty = windows.filter((w) => w.mean === null).length;
   const means = windows.map((w) => w.mean).filter((v): v is number => v !== null);
