@@ -33,7 +33,7 @@ export function definedValues(values: (number | null)[], labels: string[]): { un
 }
 
 /** The layered Vega-Lite body (no frame) and whether a strip or histogram was used. */
-export function distributionBody(input: DistributionInput): { body: Record<string, unknown>; style: 'strip' | 'histogram'; height: number } {
+export function distributionBody(input: DistributionInput): { body: Record<string, unknown>; style: 'strip' | 'histogram'; height: number; subtitle: string } {
   const points = definedValues(input.values, input.labels);
   const m = input.measure;
   const style = points.length <= STRIP_MAX ? 'strip' : 'histogram';
@@ -63,14 +63,10 @@ export function distributionBody(input: DistributionInput): { body: Record<strin
   }
   layers.push(dataLayer);
   if (m.estimate !== null) {
-    const label = `${input.summaryName} ${fmt(m.estimate)}${m.interval ? ` [${fmt(m.interval[0])}, ${fmt(m.interval[1])}]` : ''}`;
-    const est = { data: { values: [{ estimate: m.estimate, label }] } };
-    layers.push({ ...est, mark: { type: 'rule', color: ROLE.estimate, strokeWidth: 2 }, encoding: { x: { field: 'estimate', type: 'quantitative' } } });
-    layers.push({
-      ...est,
-      mark: { type: 'text', align: 'left', baseline: 'top', dx: 4, dy: 2, color: ROLE.estimate, fontWeight: 600 },
-      encoding: { x: { field: 'estimate', type: 'quantitative' }, y: { value: 0 }, text: { field: 'label', type: 'nominal' } },
-    });
+    // The rule only: its value goes in the subtitle, where it covers no data.
+    layers.push({ data: { values: [{ estimate: m.estimate }] }, mark: { type: 'rule', color: ROLE.estimate, strokeWidth: 2 }, encoding: { x: { field: 'estimate', type: 'quantitative' } } });
   }
-  return { body: { layer: layers }, style, height: style === 'strip' ? 90 : 200 };
+  const value = m.estimate === null ? 'no estimate' : `${fmt(m.estimate)}${m.interval ? ` [${fmt(m.interval[0])}, ${fmt(m.interval[1])}]` : ''}`;
+  const subtitle = `${style === 'strip' ? 'ticks: one per unit' : 'bars: units per bin'} · line: ${input.summaryName} ${value}${m.interval ? ' · band: its bootstrap interval' : ''}`;
+  return { body: { layer: layers }, style, height: style === 'strip' ? 90 : 200, subtitle };
 }

@@ -3,11 +3,11 @@
  * intervals (our bounds), the baseline band (baseline mean ± 1 SD) and mean, the EWMA
  * statistic and its control limits (Roberts 1959) on the same scale, or for CUSUM (Page 1954)
  * a second panel with the chart statistics. Flagged months are marked by SHAPE (a triangle)
- * and a text label, thin months by a hollow square and a label — colour is never the only cue.
+ * and a text label in the margin above their column (never over data), thin months by a hollow square and a label — colour is never the only cue.
  */
 import type { ChartSpec, DriftResult, DriftSeries } from '../types.ts';
-import { fmt, frame, measureLabel, slug } from './format.ts';
-import { ROLE } from './theme.ts';
+import { fmt, frame, measureLabel, pct, slug } from './format.ts';
+import { CHART_WIDTH, estimateTextWidth, ROLE, TYPE } from './theme.ts';
 
 const STATUS = ['in control', 'thin month', 'signal'] as const;
 const STATUS_SHAPE = ['circle', 'square', 'triangle-up'];
@@ -31,7 +31,7 @@ function describe(s: DriftSeries, drift: DriftResult): string {
   const thin = pts.filter((p) => p.thin).map((p) => p.month);
   if (thin.length) parts.push(`Thin months (too few units or bins): ${thin.join(', ')}.`);
   if (s.mannKendall) parts.push(`Mann–Kendall z = ${fmt(s.mannKendall.z)}, p = ${fmt(s.mannKendall.p)}${s.pAdjusted !== null ? `, adjusted p (${drift.adjustment}) = ${fmt(s.pAdjusted)}` : ''}.`);
-  if (s.theilSen) parts.push(`Theil–Sen slope ${fmt(s.theilSen.slope)} per month (${fmt(s.theilSen.level * 100, 4)}% CI ${fmt(s.theilSen.lower)} to ${fmt(s.theilSen.upper)}).`);
+  if (s.theilSen) parts.push(`Theil–Sen slope ${fmt(s.theilSen.slope)} per month (${pct(s.theilSen.level)} CI ${fmt(s.theilSen.lower)} to ${fmt(s.theilSen.upper)}).`);
   return parts.join(' ');
 }
 
@@ -52,18 +52,13 @@ export function driftSeriesChart(s: DriftSeries, drift: DriftResult): ChartSpec 
     chartLower: p.chartLower ?? null,
     chartLimit: p.chartLimit ?? null,
   }));
-  const x = { field: 'month', type: 'ordinal', title: 'month', scale: { domain: months }, axis: { labelAngle: months.length > 8 ? -40 : 0 } };
+  const x = { field: 'month', type: 'ordinal', title: 'month', scale: { domain: months }, axis: { labelAngle: months.length * (estimateTextWidth('2026-01', TYPE.label) + 4) > CHART_WIDTH ? -40 : 0 } };
   const y = { type: 'quantitative', title: measureLabel(s.measure), scale: { zero: false } };
   const layers: Record<string, unknown>[] = [];
   if (s.baseline) {
     const b = { mean: s.baseline.mean, sd: s.baseline.sd, low: s.baseline.mean - s.baseline.sd, high: s.baseline.mean + s.baseline.sd, label: 'baseline mean ± 1 SD' };
-    layers.push({ data: { values: [b] }, mark: { type: 'rect', color: ROLE.baseline, opacity: 0.22 }, encoding: { y: { ...y, field: 'low' }, y2: { field: 'high' } } });
-    layers.push({ data: { values: [b] }, mark: { type: 'rule', color: ROLE.baseline, strokeWidth: 1.2 }, encoding: { y: { ...y, field: 'mean' } } });
-    layers.push({
-      data: { values: [b] },
-      mark: { type: 'text', align: 'left', baseline: 'bottom', dx: 2, dy: -2, color: ROLE.muted },
-      encoding: { y: { ...y, field: 'high' }, x: { value: 0 }, text: { field: 'label', type: 'nominal' } },
-    });
+    layers.push({ data: { values: [b] }, mark: { type: 'rect', color: ROLE.baseline, opacity: 0.6 }, encoding: { y: { ...y, field: 'low' }, y2: { field: 'high' } } });
+    layers.push({ data: { values: [b] }, mark: { type: 'rule', color: ROLE.muted, strokeWidth: 1 }, encoding: { y: { ...y, field: 'mean' } } });
   }
   const pointData = { data: { values: rows } };
   if (s.chart === 'ewma' && rows.some((r) => r.chartValue !== null || r.chartUpper !== null || r.chartLower !== null)) {
@@ -110,9 +105,10 @@ export function driftSeriesChart(s: DriftSeries, drift: DriftResult): ChartSpec 
   });
   if (rows.some((r) => r.flag !== '' && r.estimate !== null)) layers.push({
     ...pointData,
-    transform: [{ filter: "datum.flag !== '' && isValid(datum.estimate)" }, { calculate: 'isValid(datum.upper) ? datum.upper : datum.estimate', as: 'top' }],
-    mark: { type: 'text', baseline: 'bottom', dy: -6, fontWeight: 600, color: ROLE.ink },
-    encoding: { x, y: { ...y, field: 'top' }, text: { field: 'flag', type: 'nominal' } },
+    // In the margin above the plot, over the month's column: the word never covers data.
+    transform: [{ filter: "datum.flag !== '' && isValid(datum.estimate)" }],
+    mark: { type: 'text', baseline: 'bottom', dy: -4, fontWeight: 600, color: ROLE.ink },
+    encoding: { x, y: { value: 0 }, text: { field: 'flag', type: 'nominal' } },
   });
   if (rows.some((r) => r.estimate === null)) layers.push({
     ...pointData,
@@ -127,7 +123,7 @@ export function driftSeriesChart(s: DriftSeries, drift: DriftResult): ChartSpec 
   const subtitle = `${s.chart === 'ewma' ? 'EWMA' : 'CUSUM'} screening · bars: bootstrap intervals · grey band: baseline mean ± 1 SD`;
   if (s.chart === 'ewma') return { id, title, description, datasetId: null, spec: frame(title, description, main, { subtitle }) };
   const cusum = {
-    width: 520,
+    width: CHART_WIDTH,
     height: 110,
     data: { values: rows },
     transform: [{ fold: ['chartValue', 'chartUpper', 'chartLower'], as: ['line', 'value'] }, { filter: 'isValid(datum.value)' }],
@@ -145,15 +141,15 @@ export function driftSeriesChart(s: DriftSeries, drift: DriftResult): ChartSpec 
     hLimit === null
       ? cusum
       : {
-          width: 520,
+          width: CHART_WIDTH,
           height: 110,
           layer: [
             cusumLayer,
-            { data: { values: [{ h: hLimit, label: `H = ${hLimit.toPrecision(3)}` }] }, mark: { type: 'rule', strokeDash: [6, 2], color: ROLE.limit }, encoding: { y: { field: 'h', type: 'quantitative' } } },
-            { data: { values: [{ h: hLimit, label: `decision interval H = ${hLimit.toPrecision(3)}` }] }, mark: { type: 'text', align: 'left', dx: 4, dy: -6, fontSize: 10 }, encoding: { x: { value: 0 }, y: { field: 'h', type: 'quantitative' }, text: { field: 'label', type: 'nominal' } } },
+            { data: { values: [{ h: hLimit, label: `H = ${fmt(hLimit)}` }] }, mark: { type: 'rule', strokeDash: [6, 2], color: ROLE.limit }, encoding: { y: { field: 'h', type: 'quantitative' } } },
+            { data: { values: [{ h: hLimit, label: `decision interval H = ${fmt(hLimit)}` }] }, mark: { type: 'text', align: 'left', dx: 4, dy: -6 }, encoding: { x: { value: 0 }, y: { field: 'h', type: 'quantitative' }, text: { field: 'label', type: 'nominal' } } },
           ],
         };
-  const spec = { vconcat: [{ width: 520, height: 200, ...main }, cusumPanel], resolve: { scale: { strokeDash: 'independent', shape: 'independent', color: 'independent' } } };
+  const spec = { vconcat: [{ width: CHART_WIDTH, height: 200, ...main }, cusumPanel], resolve: { scale: { strokeDash: 'independent', shape: 'independent', color: 'independent' } } };
   return { id, title, description, datasetId: null, spec: frame(title, description, spec, { noSize: true, subtitle }) };
 }
 

@@ -9,7 +9,8 @@
  *               ─3→ (optional) renderChartSvgs: SVG for each, server-side
  *
  * Every builder is pure (plain values in, a plain `ChartSpec` out); charts whose data are
- * missing are left out rather than drawn empty.
+ * missing are left out rather than drawn empty. One measure across all datasets
+ * (`acrossDatasetsCharts`, one chart per measure) is built separately, for the page to place.
  */
 import type { AuditResult, ChartSpec } from '../types.ts';
 import { degreeDistributionCharts } from './degree-distribution.ts';
@@ -32,6 +33,8 @@ export { measuresSummaryChart } from './measures-summary.ts';
 export { populationSparsenessChart } from './population-sparseness.ts';
 export { thresholdCurveChart } from './threshold-curve.ts';
 export { degreeDistributionCharts } from './degree-distribution.ts';
+export { acrossDatasetsChart, acrossDatasetsCharts, acrossDatasetsMeasures, acrossDatasetsRows } from './across-datasets.ts';
+export type { AcrossDatasetsOptions, AcrossDatasetsRow } from './across-datasets.ts';
 
 /** Every chart of every dataset, in dataset order, then the drift charts. Ids are unique. */
 export function buildCharts(result: AuditResult): ChartSpec[] {

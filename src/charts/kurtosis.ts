@@ -14,7 +14,7 @@ export function kurtosisChart(ds: DatasetResult): ChartSpec | null {
   const cd = ds.chartData as ActivityChartData;
   const defined = definedValues(cd.kurtosis, cd.unitLabels);
   if (defined.length === 0) return null;
-  const { body, style, height } = distributionBody({
+  const { body, style, height, subtitle } = distributionBody({
     values: cd.kurtosis,
     labels: cd.unitLabels,
     axisTitle: 'excess kurtosis g2 of each unit',
@@ -30,5 +30,5 @@ export function kurtosisChart(ds: DatasetResult): ChartSpec | null {
     (undefinedUnits ? ` (${undefinedUnits} more undefined or with too few nonzero bins, not shown)` : '') +
     `, drawn as a ${style === 'strip' ? 'strip with one tick per unit' : 'histogram'}, from ${fmt(minOf(vals))} to ${fmt(maxOf(vals))}${q}. ` +
     `Median over units: ${estimatePhrase(m)}; the shaded band is the bootstrap interval and the line the median.`;
-  return { id: `${slug(ds.id)}--kurtosis`, title, description, datasetId: ds.id, spec: frame(title, description, body, { height }) };
+  return { id: `${slug(ds.id)}--kurtosis`, title, description, datasetId: ds.id, spec: frame(title, description, body, { height, subtitle }) };
 }

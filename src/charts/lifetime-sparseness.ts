@@ -15,7 +15,7 @@ export function lifetimeSparsenessChart(ds: DatasetResult): ChartSpec | null {
   const cd = ds.chartData as ActivityChartData;
   const defined = definedValues(cd.lifetimeSparseness, cd.unitLabels);
   if (defined.length === 0) return null;
-  const { body, style, height } = distributionBody({
+  const { body, style, height, subtitle } = distributionBody({
     values: cd.lifetimeSparseness,
     labels: cd.unitLabels,
     axisTitle: 'lifetime sparseness of each unit',
@@ -30,5 +30,5 @@ export function lifetimeSparsenessChart(ds: DatasetResult): ChartSpec | null {
     (undefinedUnits ? ` (${undefinedUnits} more undefined, not shown)` : '') +
     `, drawn as a ${style === 'strip' ? 'strip with one tick per unit' : 'histogram'}, from ${fmt(minOf(vals))} to ${fmt(maxOf(vals))}. ` +
     `Mean over defined units: ${estimatePhrase(m)}; the shaded band is the bootstrap interval and the line the mean.`;
-  return { id: `${slug(ds.id)}--lifetime-sparseness`, title, description, datasetId: ds.id, spec: frame(title, description, body, { height }) };
+  return { id: `${slug(ds.id)}--lifetime-sparseness`, title, description, datasetId: ds.id, spec: frame(title, description, body, { height, subtitle }) };
 }

@@ -7,7 +7,7 @@
  */
 import type { ChartSpec, DatasetResult, MeasureResult } from '../types.ts';
 import { estimatePhrase, fmt, frame, measureLabel, slug } from './format.ts';
-import { ROLE } from './theme.ts';
+import { CHART_WIDTH, ESTIMATE_SHAPE, ROLE, TYPE } from './theme.ts';
 
 interface Row {
   measure: string;
@@ -46,12 +46,14 @@ export function measureRows(ds: DatasetResult): Row[] {
   return rows;
 }
 
-const ROW_WIDTH = 300;
-
-/** One row: label on the left, interval bar, estimate diamond, numbers on the right. */
+/**
+ * One row: the measure's name and numbers as a line of text above its own axis, then the
+ * interval bar and the estimate diamond. Text above rather than beside the axis keeps the chart
+ * as narrow as the others (legible on a phone).
+ */
 function rowChart(r: Row): Record<string, unknown> {
   const data = { data: { values: [r] } };
-  const x = { type: 'quantitative', title: null, scale: { zero: false }, axis: { grid: true, labelFontSize: 9, tickCount: 4 } };
+  const x = { type: 'quantitative', title: null, scale: { zero: false }, axis: { grid: true, tickCount: 4 } };
   const layers: Record<string, unknown>[] = [];
   if (r.lower !== null && r.upper !== null) {
     layers.push({ ...data, mark: { type: 'rule', color: ROLE.estimate, strokeWidth: 2.5 }, encoding: { x: { ...x, field: 'lower' }, x2: { field: 'upper' } } });
@@ -59,7 +61,7 @@ function rowChart(r: Row): Record<string, unknown> {
   if (r.estimate !== null) {
     layers.push({
       ...data,
-      mark: { type: 'point', shape: 'diamond', filled: true, size: 70, color: ROLE.ink },
+      mark: { type: 'point', shape: ESTIMATE_SHAPE, filled: true, size: 70, color: ROLE.ink },
       encoding: {
         x: { ...x, field: 'estimate' },
         tooltip: [
@@ -73,9 +75,13 @@ function rowChart(r: Row): Record<string, unknown> {
       },
     });
   }
-  layers.push({ ...data, mark: { type: 'text', align: 'right', baseline: 'middle', dx: -10, color: ROLE.ink, fontWeight: 500 }, encoding: { x: { value: 0 }, text: { field: 'measure', type: 'nominal' } } });
-  layers.push({ ...data, mark: { type: 'text', align: 'left', baseline: 'middle', dx: 10, color: ROLE.muted }, encoding: { x: { value: ROW_WIDTH }, text: { field: 'label', type: 'nominal' } } });
-  return { width: ROW_WIDTH, height: 22, layer: layers };
+  if (layers.length === 0) layers.push({ ...data, mark: { type: 'text', align: 'left', color: ROLE.muted }, encoding: { x: { value: 0 }, text: { value: 'no estimate' } } });
+  return {
+    width: CHART_WIDTH,
+    height: 16,
+    title: { text: r.measure, subtitle: r.label, anchor: 'start', fontSize: TYPE.label, fontWeight: 600, color: ROLE.ink, subtitleFontSize: TYPE.label, subtitlePadding: 1, offset: 4 },
+    layer: layers,
+  };
 }
 
 /** The per-dataset measures chart, or null when the dataset has no measures. */
@@ -83,7 +89,7 @@ export function measuresSummaryChart(ds: DatasetResult): ChartSpec | null {
   const rows = measureRows(ds);
   if (rows.length === 0) return null;
   const charts = rows.map((r) => rowChart(r));
-  const spec = { vconcat: charts, spacing: 4 };
+  const spec = { vconcat: charts, spacing: 10 };
   const title = `Measures — ${ds.id}`;
   const anyInterval = Object.values(ds.measures).some((m) => m?.interval) || Object.values(ds.eventMeasures ?? {}).some((m) => m?.interval);
   const description =

@@ -8,6 +8,7 @@
  */
 import type { ActivityChartData, ChartSpec, DatasetResult, MeasureResult } from '../types.ts';
 import { estimatePhrase, fmt, frame, slug } from './format.ts';
+import { fitDomain } from './domain.ts';
 import { ROLE } from './theme.ts';
 import { minOf, maxOf } from '../util/arrays.ts';
 
@@ -34,7 +35,9 @@ export function populationSparsenessChart(ds: DatasetResult, options: { events?:
     bins: w.bins,
   }));
   const x = { field: 'mid', type: 'quantitative', title: xTitle, scale: { zero: false, nice: false } };
-  const y = { type: 'quantitative', title: options.events ? 'event population sparseness' : 'population sparseness' };
+  // 1. The y axis fits the window values and the interval (a 0–1 axis flattens a series near 0.99).
+  const fitted = fitDomain(domainValues(windows, m), { bounds: [0, 1] }) ?? [0, 1];
+  const y = { type: 'quantitative', title: options.events ? 'event population sparseness' : 'population sparseness', scale: { domain: fitted, nice: false, zero: false } };
   const layers: Record<string, unknown>[] = [];
   if (m.interval) {
     layers.push({
@@ -65,14 +68,11 @@ export function populationSparsenessChart(ds: DatasetResult, options: { events?:
     ],
   });
   if (m.estimate !== null) {
-    const label = `mean ${fmt(m.estimate)}${m.interval ? ` [${fmt(m.interval[0])}, ${fmt(m.interval[1])}]` : ''}`;
-    const est = { data: { values: [{ estimate: m.estimate, label }] } };
-    layers.push({ ...est, mark: { type: 'rule', color: ROLE.estimate, strokeWidth: 1.5, strokeDash: [5, 3] }, encoding: { y: { ...y, field: 'estimate' } } });
-    layers.push({
-      ...est,
-      mark: { type: 'text', align: 'right', baseline: 'bottom', dy: -3, color: ROLE.estimate, fontWeight: 600 },
-      encoding: { y: { ...y, field: 'estimate' }, x: { value: { expr: 'width' } }, text: { field: 'label', type: 'nominal' } },
-    });
+    // 2. The rule only: its value is written in the subtitle, where it covers no data.
+    const est = { data: { values: [{ estimate: m.estimate }] } };
+    // A paper-coloured halo under the dashed rule keeps it visible over a dense data line (and in greyscale).
+    layers.push({ ...est, mark: { type: 'rule', color: ROLE.paper, strokeWidth: 4.5, opacity: 0.9 }, encoding: { y: { ...y, field: 'estimate' } } });
+    layers.push({ ...est, mark: { type: 'rule', color: ROLE.estimate, strokeWidth: 2, strokeDash: [6, 3] }, encoding: { y: { ...y, field: 'estimate' } } });
   }
   const empty = windows.filter((w) => w.mean === null).length;
   const means = windows.map((w) => w.mean).filter((v): v is number => v !== null);
@@ -84,12 +84,36 @@ export function populationSparsenessChart(ds: DatasetResult, options: { events?:
     (scale !== null ? ` (${fmt(cd.windowBins * scale)} s each)` : '') +
     `; window means range from ${fmt(minOf(means))} to ${fmt(maxOf(means))}` +
     (empty ? `, ${empty} windows have no defined bin and are left as gaps` : '') +
-    `. Mean over defined bins: ${estimatePhrase(m)}.`;
+    `. Mean over defined bins: ${estimatePhrase(m)}. ${axisSentence(fitted)}`;
   return {
     id: `${slug(ds.id)}--${options.events ? 'event-' : ''}population-sparseness`,
     title,
     description,
     datasetId: ds.id,
-    spec: frame(title, description, { layer: layers }, { subtitle: 'line: window mean · light band: window min–max · dashed line and dark band: overall mean and its bootstrap interval' }),
+    spec: frame(title, description, { layer: layers }, { subtitle: subtitle(m, fitted) }),
   };
+}
+
+/** Every value the y axis must show: window means, minima and maxima, the estimate and its interval. */
+function* domainValues(windows: Windows, m: MeasureResult): Generator<number | null> {
+  for (const w of windows) {
+    yield w.min;
+    yield w.max;
+    yield w.mean;
+  }
+  yield m.estimate;
+  if (m.interval) yield* m.interval;
+}
+
+/** The caption's sentence on the y axis, since it does not start at 0. */
+export function axisSentence(domain: [number, number]): string {
+  return domain[0] === 0 && domain[1] === 1
+    ? 'The vertical axis spans the whole range, 0 to 1.'
+    : `The vertical axis spans ${fmt(domain[0])} to ${fmt(domain[1])}, fitted to the window values and the interval, not the whole range 0 to 1.`;
+}
+
+/** Legend in words, with the estimate's value (kept off the plot so it covers no data). */
+function subtitle(m: MeasureResult, domain: [number, number]): string {
+  const value = m.estimate === null ? 'no estimate' : `${fmt(m.estimate)}${m.interval ? ` [${fmt(m.interval[0])}, ${fmt(m.interval[1])}]` : ''}`;
+  return `line: window mean · light band: window min–max · dashed line: mean over bins, ${value}${m.interval ? ' · dark band: its bootstrap interval' : ''}${domain[0] === 0 && domain[1] === 1 ? '' : ' · axis fitted to the data'}`;
 }

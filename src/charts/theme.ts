@@ -1,82 +1,142 @@
 /**
- * Lacuna's chart look: one palette, one typeface stack, light gridlines.
+ * Lacuna's chart look, shared with the report pages.
  *
- * Palette: the eight colours of Okabe & Ito (2008), "Color Universal Design (CUD): how to make
- * figures and presentations that are friendly to colorblind people" (as published in Wong 2011,
- * Nature Methods 8:441), which stay distinguishable under the common colour-vision deficiencies.
- * Colour never carries meaning alone: flagged months also get a shape and a text label, layer
- * lines also get a dash pattern and a point shape.
+ * - Inks: a small set of Lacuna's own colours, chosen for this report's warm paper and black
+ *   ink rather than taken from a charting library or another product. Neighbouring series
+ *   differ in lightness as well as hue (dark indigo next to light ochre), so two groups stay
+ *   apart in greyscale print; and colour never carries meaning alone: every series also has a
+ *   point shape and a dash pattern (SHAPES, DASHES), and a name in a legend or label.
+ * - Type: the pages' sans-serif stack (`--sans` in `src/report/style.css`), at sizes that stay
+ *   at least 10 CSS px when a chart is scaled down to a 420 px phone column (see CHART_WIDTH).
+ * - Marks: estimates are diamonds, intervals are bars with short end caps, grids are dotted
+ *   hairlines like the pages' table rules, axes have no box.
+ *
+ * `cssCustomProperties()` gives the same values as CSS custom properties (`--chart-…`) for a
+ * page that wants legends or captions in the charts' colours.
  */
+import { AXIS_NUMBER_FORMAT } from '../format/number.ts';
 
-/** Okabe–Ito colours, by name. */
+/** Lacuna's inks, by name (hex sRGB). Approximate CIE L* in brackets, for greyscale order. */
 export const PALETTE = {
-  black: '#000000',
-  orange: '#E69F00',
-  sky: '#56B4E9',
-  green: '#009E73',
-  yellow: '#F0E442',
-  blue: '#0072B2',
-  vermillion: '#D55E00',
-  purple: '#CC79A7',
+  /** Deep blue-violet ink (L* 28): the default data colour. */
+  indigo: '#2b3a8f',
+  /** Yellow-brown (L* 63): the light partner of indigo. */
+  ochre: '#c08a1e',
+  /** Red-purple (L* 36). */
+  plum: '#7b3a6c',
+  /** Green (L* 49). */
+  moss: '#4e7d3a',
+  /** Blue-grey (L* 52). */
+  slate: '#6a7c8c',
+  /** Red-brown (L* 46): our estimates and flags, never a series. */
+  rust: '#b24a1e',
+  /** Near-black (L* 12), as the pages' `--ink`. */
+  ink: '#1c1e22',
 } as const;
 
 /** Colour roles used by every chart. */
 export const ROLE = {
   /** Per-item data (units, windows, layers). */
-  data: PALETTE.blue,
+  data: PALETTE.indigo,
   /** Our estimate and its bootstrap interval. */
-  estimate: PALETTE.vermillion,
-  /** Ranges of data (min–max band of windows). */
-  range: PALETTE.sky,
-  /** Baseline band of a drift series. */
-  baseline: '#9aa3ad',
+  estimate: PALETTE.rust,
+  /** Ranges of data (min–max band of windows): a pale indigo tint. */
+  range: '#c3c9e6',
+  /** Baseline band of a drift series: the pages' warm hairline colour. */
+  baseline: '#d9d2c2',
   /** Control limits. */
   limit: '#3b4148',
   /** Flagged points. */
-  signal: PALETTE.vermillion,
-  ink: '#1f2328',
-  muted: '#5b626b',
-  grid: '#e8eaed',
+  signal: PALETTE.rust,
+  ink: PALETTE.ink,
+  muted: '#50555c',
+  grid: '#cfc9bb',
+  /** Chart background: white, as the pages' `--sheet`. */
+  paper: '#ffffff',
 } as const;
 
-/** Categorical order for series (layers, directions): yellow is left out (too light on white). */
-export const CATEGORY = [PALETTE.blue, PALETTE.orange, PALETTE.green, PALETTE.purple, PALETTE.sky, PALETTE.vermillion, PALETTE.black];
+/** Categorical order for series (groups, layers): dark and light alternate, so greyscale keeps them apart. */
+export const CATEGORY = [PALETTE.indigo, PALETTE.ochre, PALETTE.plum, PALETTE.slate, PALETTE.ink, PALETTE.moss];
 /** Dash patterns paired with CATEGORY, so series differ without colour. */
-export const DASHES = [[1, 0], [6, 3], [2, 2], [8, 3, 2, 3], [4, 4], [10, 2], [1, 3]];
-/** Point shapes paired with CATEGORY. */
-export const SHAPES = ['circle', 'square', 'triangle-up', 'diamond', 'cross', 'triangle-down', 'wedge'];
+export const DASHES = [[1, 0], [7, 3], [2, 2], [9, 3, 2, 3], [4, 4], [1, 3]];
+/** Point shapes paired with CATEGORY (filled where the mark allows). */
+export const SHAPES = ['circle', 'square', 'triangle-up', 'diamond', 'triangle-down', 'cross'];
+/** The shape of an estimate wherever it is drawn as a point. */
+export const ESTIMATE_SHAPE = 'diamond';
 
-/** Typeface stack: humanist sans faces with wide language coverage, then the platform default. */
-export const FONT = '"Source Sans 3", "Noto Sans", "Fira Sans", "Segoe UI", Roboto, "Helvetica Neue", Arial, sans-serif';
+/** Typeface stack: the pages' `--sans`, so chart text and page text match. */
+export const FONT = 'system-ui, -apple-system, "Segoe UI", "Noto Sans", "DejaVu Sans", Arial, sans-serif';
 
-export const CHART_WIDTH = 520;
-export const CHART_HEIGHT = 220;
+/** Type sizes in SVG px (see SVG_WIDTH for why these sizes are legible on a phone). */
+export const TYPE = { title: 14, subtitle: 12, label: 12, axisTitle: 12 } as const;
+
+/**
+ * Width budget of a whole chart SVG in px, axes, legend and titles included. A page scales the
+ * SVG down to its column: about 362 px on a 420 px-wide phone, so 400 px keeps 12 px text at
+ * 12 × 362 / 400 ≈ 10.9 px. The server-side SVG measures text by Vega's estimate (no canvas,
+ * `estimateTextWidth`), which is wider than the real text, so the budget is met with room.
+ */
+export const SVG_WIDTH = 400;
+
+/** Plot width in px (the data rectangle), leaving room in SVG_WIDTH for a y axis and padding. */
+export const CHART_WIDTH = 300;
+export const CHART_HEIGHT = 200;
+
+/**
+ * Text width as Vega estimates it without a canvas (vega-scenegraph `estimateWidth`:
+ * 0.8 × font size × characters); charts size their text to fit SVG_WIDTH by this measure.
+ */
+export function estimateTextWidth(text: string, fontSize: number): number {
+  return 0.8 * fontSize * text.length;
+}
+
+/** Longest title line and subtitle line, in characters, that fit SVG_WIDTH by the estimate. */
+export const TITLE_CHARS = Math.floor((SVG_WIDTH - 16) / (0.8 * TYPE.title));
+export const SUBTITLE_CHARS = Math.floor((SVG_WIDTH - 16) / (0.8 * TYPE.subtitle));
 
 /** Vega-Lite `config` block applied to every chart. */
 export function themeConfig(): Record<string, unknown> {
   return {
     font: FONT,
-    background: '#ffffff',
+    background: ROLE.paper,
     padding: 8,
     view: { stroke: null },
-    title: { anchor: 'start', color: ROLE.ink, fontSize: 14, fontWeight: 600, subtitleColor: ROLE.muted, subtitleFontSize: 11, offset: 10 },
+    title: { anchor: 'start', color: ROLE.ink, fontSize: TYPE.title, fontWeight: 700, subtitleColor: ROLE.muted, subtitleFontSize: TYPE.subtitle, subtitlePadding: 4, offset: 12 },
     axis: {
       grid: true,
       gridColor: ROLE.grid,
-      gridWidth: 0.7,
-      domainColor: '#8c939b',
-      tickColor: '#8c939b',
+      gridWidth: 0.8,
+      gridDash: [1, 3],
+      domain: false,
+      ticks: true,
+      tickColor: ROLE.muted,
+      tickSize: 4,
       labelColor: ROLE.muted,
+      labelFontSize: TYPE.label,
+      labelPadding: 3,
       titleColor: ROLE.ink,
-      labelFontSize: 11,
-      titleFontSize: 12,
-      titleFontWeight: 500,
+      titleFontSize: TYPE.axisTitle,
+      titleFontWeight: 600,
+      titlePadding: 6,
     },
+    axisX: { domain: true, domainColor: ROLE.ink, domainWidth: 1 },
     axisBand: { grid: false },
-    legend: { labelColor: ROLE.muted, titleColor: ROLE.ink, labelFontSize: 11, titleFontSize: 11, orient: 'bottom', direction: 'horizontal' },
-    header: { labelColor: ROLE.ink, labelFontSize: 12, titleColor: ROLE.ink },
+    legend: { labelColor: ROLE.ink, titleColor: ROLE.ink, labelFontSize: TYPE.label, titleFontSize: TYPE.label, titleFontWeight: 600, orient: 'bottom', direction: 'horizontal', layout: { bottom: { anchor: 'start', direction: 'vertical', margin: 6 } }, symbolStrokeWidth: 1.8, columns: 2, columnPadding: 14, labelLimit: 150 },
+    header: { labelColor: ROLE.ink, labelFontSize: TYPE.label, labelFontWeight: 600, titleColor: ROLE.ink },
     range: { category: CATEGORY },
     mark: { color: ROLE.data },
-    text: { color: ROLE.ink, fontSize: 11 },
+    text: { color: ROLE.ink, fontSize: TYPE.label },
+    // Axis tick labels follow the shared number policy (src/format/number.ts).
+    numberFormat: AXIS_NUMBER_FORMAT,
   };
+}
+
+/** The theme as CSS custom properties (`--chart-data: #2b3a8f; …`), for pages that match the charts. */
+export function cssCustomProperties(): string {
+  const vars: [string, string][] = [
+    ['--chart-font', FONT],
+    ...Object.entries(ROLE).map(([k, v]): [string, string] => [`--chart-${k}`, v]),
+    ...CATEGORY.map((c, i): [string, string] => [`--chart-series-${i + 1}`, c]),
+  ];
+  return vars.map(([k, v]) => `${k}: ${v};`).join(' ');
 }

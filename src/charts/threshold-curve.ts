@@ -13,16 +13,18 @@ export function thresholdCurveChart(ds: DatasetResult): ChartSpec | null {
   if (!cd.thresholdCurve || cd.thresholdCurve.length === 0) return null;
   const layerNames = [...new Set(cd.thresholdCurve.map((p) => p.layer))];
   const pick = <T>(list: T[]) => layerNames.map((_, i) => list[i % list.length]!);
-  const enc = (channel: 'color' | 'strokeDash' | 'shape', range: unknown[]) => ({ field: 'layer', type: 'nominal', title: 'layer', scale: { domain: layerNames, range }, ...(channel === 'color' ? {} : { legend: null }) });
+  // Colour, dash and shape share field, title and domain, so Vega-Lite merges them into ONE
+  // legend whose symbols show all three. (A `legend: null` on any of them dropped the legend.)
+  const enc = (range: unknown[]) => ({ field: 'layer', type: 'nominal', title: 'layer', scale: { domain: layerNames, range } });
   const layer = {
     data: { values: cd.thresholdCurve },
     mark: { type: 'line', strokeWidth: 1.8, point: { filled: true, size: 30 } },
     encoding: {
       x: { field: 'threshold', type: 'quantitative', title: 'magnitude threshold' },
       y: { field: 'density', type: 'quantitative', title: 'density above threshold', scale: { domain: [0, 1] } },
-      color: enc('color', pick(CATEGORY)),
-      strokeDash: enc('strokeDash', pick(DASHES)),
-      shape: enc('shape', pick(SHAPES)),
+      color: enc(pick(CATEGORY)),
+      strokeDash: enc(pick(DASHES)),
+      shape: enc(pick(SHAPES)),
       tooltip: [{ field: 'layer', type: 'nominal' }, { field: 'threshold', type: 'quantitative', format: '.4~g' }, { field: 'density', type: 'quantitative', format: '.4~g' }],
     },
   };

@@ -4,30 +4,23 @@
  * the templates escape it.
  */
 import type { IntervalMethod, MeasureName, MeasureResult } from '../types.ts';
+import { NONE as SHARED_NONE, formatCount as sharedCount, formatLevel as sharedLevel, formatNumber as sharedNumber } from '../format/number.ts';
 
 /** Shown where a number is absent; the page always says why next to it. */
-export const NONE = '—';
+export const NONE = SHARED_NONE;
 
 /**
- * A measured value with three significant digits: `0.421`, `12.3`, `-0.0500`; values of 10,000 or
- * more, or below 0.001 in magnitude, in exponent form (`1.23e-4`). `null`/`undefined` give `—`;
- * NaN and ±Infinity are written as `not finite` (they should never reach a page, but a page must
- * not hide them). Exact zero is `0`.
+ * A measured value under Lacuna's one number policy (`src/format/number.ts`, shared with the
+ * charts): whole numbers in full (`9,596`), others to three significant digits (`0.421`, `0.0500`),
+ * exponent form only below 0.001 or from a million (`1.23e-4`); `null` gives `—`.
  */
 export function formatNumber(x: number | null | undefined, digits = 3): string {
-  if (x === null || x === undefined) return NONE;
-  if (!Number.isFinite(x)) return 'not finite';
-  if (x === 0) return '0';
-  const a = Math.abs(x);
-  if (a >= 1e4 || a < 1e-3) return x.toExponential(digits - 1);
-  return x.toPrecision(digits);
+  return sharedNumber(x, { digits, absent: NONE });
 }
 
 /** A count with thousands separators: `12,345`. */
 export function formatCount(n: number | null | undefined): string {
-  if (n === null || n === undefined) return NONE;
-  if (!Number.isFinite(n)) return 'not finite';
-  return Math.round(n).toLocaleString('en-US');
+  return sharedCount(n, NONE);
 }
 
 /** `[0.401, 0.447]`, or `—` when there is no interval. */
@@ -38,8 +31,7 @@ export function formatInterval(iv: [number, number] | null | undefined): string 
 
 /** Confidence level as a percentage: 0.95 → `95%`, 0.995 → `99.5%`. */
 export function formatLevel(level: number | null | undefined): string {
-  if (level === null || level === undefined || !Number.isFinite(level)) return NONE;
-  return `${Number((level * 100).toPrecision(6))}%`;
+  return sharedLevel(level, NONE);
 }
 
 /** The interval method in words. */

@@ -7,7 +7,6 @@
 import { describe, expect, it } from 'vitest';
 import { buildCharts, compileToVega, renderChartSvg, renderChartSvgs } from '../../src/charts/index.ts';
 import { STATIC_POINTS_MAX_ROWS, staticVariant } from '../../src/charts/render.ts';
-import { CATEGORY, PALETTE } from '../../src/charts/theme.ts';
 import type { ActivityChartData, AuditResult, ChartSpec, MeasureResult } from '../../src/types.ts';
 import { activityFixture, weightsFixture } from '../fixtures/audit-result.ts';
 
@@ -181,13 +180,6 @@ describe('purity and rendering helpers', () => {
     const out = await renderChartSvgs(charts, { logger: { warn: () => undefined } });
     expect(out.every((c) => typeof c.svg === 'string' && c.svg.startsWith('<svg'))).toBe(true);
     expect(charts.every((c) => c.svg === undefined)).toBe(true);
-  });
-
-  it('the category palette is drawn from the Okabe–Ito colours', () => {
-    // Okabe & Ito 2008, as printed in Wong 2011 (Nature Methods 8:441); hex values from memory.
-    const okabeIto = ['#000000', '#E69F00', '#56B4E9', '#009E73', '#F0E442', '#0072B2', '#D55E00', '#CC79A7'];
-    expect(Object.values(PALETTE).sort()).toEqual([...okabeIto].sort());
-    for (const c of CATEGORY) expect(okabeIto).toContain(c);
   });
 });
 

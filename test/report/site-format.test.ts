@@ -15,7 +15,8 @@ describe('formatNumber', () => {
     [12.345, '12.3'],
     [-0.05, '-0.0500'], // 3 significant digits kept, so the precision is visible
     [0, '0'],
-    [12345, '1.23e+4'], // 10,000 and above in exponent form
+    [12345, '12,345'], // a whole number in full (shared policy, src/format/number.ts)
+    [12345.6, '12,346'], // more integer digits than significant ones: rounded, not 1.23e+4
     [0.000123, '1.23e-4'], // below 0.001 in exponent form
     [null, '—'],
     [Number.NaN, 'not finite'],
