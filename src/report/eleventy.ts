@@ -16,7 +16,7 @@ import { fileURLToPath } from 'node:url';
 import { InternalError } from '../errors.ts';
 
 /** Kinds of page the templates know (`templates/_includes/page-<kind>.njk`). */
-export type PageKind = 'report' | 'drift' | 'compare' | 'audit' | 'latest' | 'site';
+export type PageKind = 'report' | 'dataset' | 'drift' | 'compare' | 'audit' | 'latest' | 'site';
 
 /** One output page: where it goes, its layout data and its model. */
 export interface PageData {

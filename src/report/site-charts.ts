@@ -100,3 +100,12 @@ export function chartModels(charts: ChartSpec[], options: ChartModelOptions): { 
 export function isDriftChart(c: { id: string; datasetId: string | null }): boolean {
   return c.datasetId === null && /^drift[-_]/i.test(c.id);
 }
+
+/**
+ * The per-dataset "all measures" chart (`<dataset>--measures`, from `measuresSummaryChart`): left
+ * off the pages, since the version page's overview table and the across-dataset charts give the
+ * same numbers once instead of once per dataset.
+ */
+export function isDatasetSummaryChart(c: { id: string; datasetId: string | null }): boolean {
+  return c.datasetId !== null && /--measures(-\d+)?$/.test(c.id);
+}

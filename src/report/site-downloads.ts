@@ -22,6 +22,7 @@ export async function writeDownloads(result: AuditResult, models: ChartModel[], 
     ['summary.tex', texts.latex],
     ['references.bib', texts.bib],
     ['methods.md', texts.methods.markdown.endsWith('\n') ? texts.methods.markdown : `${texts.methods.markdown}\n`],
+    ['methods.txt', texts.methods.plain.endsWith('\n') ? texts.methods.plain : `${texts.methods.plain}\n`],
   ];
   for (const m of models) {
     if (m.file && m.svg) files.push([m.file, `<?xml version="1.0" encoding="utf-8"?>\n${m.svg}\n`]);
