@@ -182,9 +182,11 @@ export function reportModel(
     title: result.title,
     version: result.version,
     created: formatDate(result.created),
-    tool: `${result.tool.name} ${result.tool.version}`,
+    tool: `${result.tool.name} ${result.tool.version}${result.tool.sourceCommit ? ` (source commit ${result.tool.sourceCommit.slice(0, 12)})` : ''}`,
     node: result.tool.node,
-    commit: result.tool.commit ?? 'not recorded (workspace is not a git repository, or git was unavailable)',
+    commit: result.tool.commit
+      ? `${result.tool.commit}${result.tool.workspaceDirty ? ' (with uncommitted changes when built)' : ''}`
+      : 'not recorded (workspace is not a git repository, or git was unavailable)',
     provenance: {
       inputs: fileRows(result.inputs),
       manifest: result.manifest,
