@@ -185,6 +185,19 @@ describe('the report page shows the fixture numbers with what they are', () => {
   });
 });
 
+describe('the comparison page shows only what changed', () => {
+  it('a dataset whose estimates did not move gets one line, not a table of zeros', () => {
+    // fixtureComparison: rig-a-2024-01 is `same` with a delta of 0; rig-a-2024-02 changed
+    // (lifetime sparseness 0.7012 → 0.72717, +0.02597, intervals overlap).
+    const html = squash(read(join(site.audits[0].versionDir, 'compare.html')));
+    expect(html).not.toContain('<code>rig-a-2024-01</code>');
+    expect(html).toContain('<p class="unchanged">The other dataset: no estimate changed.</p>');
+    expect(rowWith(html, '>Lifetime sparseness<')).toContain('<td class="num">0.701</td><td class="num">0.727</td><td class="num">+0.0260</td>');
+    expect(rowWith(html, '>Lifetime sparseness<')).toContain('<td>intervals overlap</td>');
+    expect(html).toContain('<code>data/2024-02/session_2.csv</code>');
+  });
+});
+
 describe('every page links only to files that exist, and loads nothing from the network', () => {
   it('local href/src targets resolve; no http(s) src; assets linked relatively', () => {
     const pages = walk(site.outDir).filter((p) => p.endsWith('.html'));
