@@ -92,8 +92,12 @@ const count = (n: number): string => Math.round(n).toLocaleString('en-US');
 function blockRange(lens: (number | null)[]): string {
   const xs = lens.filter((x): x is number => x !== null);
   if (!xs.length) return 'not recorded';
-  const lo = Math.min(...xs);
-  const hi = Math.max(...xs);
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const x of xs) {
+    if (x < lo) lo = x;
+    if (x > hi) hi = x;
+  }
   return lo === hi ? `${lo} bins` : `from ${lo} to ${hi} bins`;
 }
 

@@ -186,8 +186,12 @@ export function verdictSentences(result: AuditResult): string[] {
   const ranges = keys.flatMap((k) => {
     const est = ds.map((d) => measureOf(d, k)?.estimate).filter((x): x is number => typeof x === 'number' && Number.isFinite(x));
     if (!est.length) return [];
-    const lo = Math.min(...est);
-    const hi = Math.max(...est);
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (const x of est) {
+      if (x < lo) lo = x;
+      if (x > hi) hi = x;
+    }
     const label = measureLabel(k).toLowerCase();
     return [est.length === 1 || lo === hi ? `${label} was ${formatNumber(lo)}` : `${label} ranged from ${formatNumber(lo)} to ${formatNumber(hi)}`];
   });
