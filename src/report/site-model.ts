@@ -157,7 +157,7 @@ export const DOWNLOADS: Download[] = [
   { file: 'results.json', label: 'results.json', what: 'everything on this page, machine-readable (the audit result)' },
   { file: 'summary.csv', label: 'summary.csv', what: 'the summary table as comma-separated values' },
   { file: 'summary.md', label: 'summary.md', what: 'the summary table as a Markdown table' },
-  { file: 'summary.tex', label: 'summary.tex', what: 'the summary table as a LaTeX table (packages it needs named at its top)' },
+  { file: 'summary.tex', label: 'summary.tex', what: 'the overview table (a row per dataset, a column per measure) as a LaTeX longtable; the packages it needs are named at its top' },
   { file: 'methods.md', label: 'methods.md', what: 'the methods paragraph as Markdown' },
   { file: 'methods.txt', label: 'methods.txt', what: 'the methods paragraph as plain text, ready to paste' },
   { file: 'references.bib', label: 'references.bib', what: 'BibTeX entries for the methods cited' },
