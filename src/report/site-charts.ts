@@ -21,6 +21,11 @@ export interface ChartModel {
   specJson: string | null;
   /** `figures/<file>.svg`, relative to the version folder; null when there is no SVG. */
   file: string | null;
+  /**
+   * Whether the caption's description folds away under a summary line (it stays the figure's
+   * text alternative): for charts whose numbers a table on the same page already gives.
+   */
+  foldCaption: boolean;
 }
 
 /**
@@ -91,6 +96,7 @@ export function chartModels(charts: ChartSpec[], options: ChartModelOptions): { 
       svg,
       specJson,
       file: svg ? `figures/${fileSlugger(c.id)}.svg` : null,
+      foldCaption: false,
     };
   });
   return { charts: out, problems };

@@ -203,7 +203,8 @@ export function reportModel(
       meaning: data.levels[level].meaning,
       count: result.datasets.reduce((k, d) => k + d.findings.filter((f) => f.level === level).length, 0),
     })),
-    acrossCharts: charts.filter((c) => !isDriftChart(c) && (c.datasetId === null || !extra.datasetHref.has(c.datasetId))),
+    // Their captions list every dataset's estimate and interval, as the overview table does: folded.
+    acrossCharts: charts.filter((c) => !isDriftChart(c) && (c.datasetId === null || !extra.datasetHref.has(c.datasetId))).map((c) => ({ ...c, foldCaption: true })),
     methodsHtml: renderMarkdown(texts.methods.markdown, 3),
     methodsPlain: texts.methods.plain,
     cautions: texts.cautions,
