@@ -91,7 +91,7 @@ export async function renderVersion(input: RenderVersionInput, targetDir: string
   for (const ds of result.datasets) {
     const dir = datasetHref.get(ds.id) ?? '';
     // Figure files live in the version folder, two levels up from a dataset page.
-    const charts = reportCharts.filter((c) => c.datasetId === ds.id).map((c) => ({ ...c, file: c.file ? `../../${c.file}` : null }));
+    const charts = reportCharts.filter((c) => c.datasetId === ds.id).map((c) => ({ ...c, file: c.file ? `../../${c.file}` : null, specScript: c.specScript ? `../../${c.specScript}` : null }));
     pages.push({
       root: '../../../../',
       audit: result.audit,
