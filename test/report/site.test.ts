@@ -185,6 +185,17 @@ describe('the report page shows the fixture numbers with what they are', () => {
   });
 });
 
+describe('site-wide words come from _data/', () => {
+  it('every page label of _data/labels.json heads its section on the version page', () => {
+    const html = read(join(site.audits[0].versionDir, 'index.html'));
+    const labels = JSON.parse(read('_data/labels.json')) as Record<string, string>;
+    for (const [key, text] of Object.entries(labels)) expect(html, key).toMatch(new RegExp(`<h2 [^>]*>${text}</h2>`));
+    // And the level meanings, from _data/levels.json.
+    const levels = JSON.parse(read('_data/levels.json')) as { levels: Record<string, { meaning: string }> };
+    for (const l of Object.values(levels.levels)) expect(html).toContain(l.meaning);
+  });
+});
+
 describe('the comparison page shows only what changed', () => {
   it('a dataset whose estimates did not move gets one line, not a table of zeros', () => {
     // fixtureComparison: rig-a-2024-01 is `same` with a delta of 0; rig-a-2024-02 changed
