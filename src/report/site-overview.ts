@@ -34,9 +34,11 @@ export interface OverviewRow {
 
 export interface OverviewModel {
   columns: OverviewColumn[];
-  /** Rows grouped by month (then group, then id); `label` is the month or `month not set`. */
+  /** Rows grouped by month (then group, then id); `label` is the month or `month not set`; one group labelled '' when no dataset has a month. */
   groups: { label: string; rows: OverviewRow[] }[];
   rowCount: number;
+  /** Whether any estimate has an interval (weights have none: every weight is read). */
+  hasIntervals: boolean;
 }
 
 export interface FindingKindItem {
@@ -97,11 +99,12 @@ export function overviewModel(result: AuditResult, hrefFor: (id: string) => stri
     const ms = result.datasets.map((d) => measureOf(d, key)).filter((m): m is MeasureResult => m !== undefined);
     const summaries = [...new Set(ms.map((m) => m.summary))];
     const ivs = [...new Set(ms.filter((m) => m.interval).map((m) => `${formatLevel(m.level)} ${formatMethod(m.method)}`))];
+    const notes = [...new Set(ms.filter((m) => !m.interval && m.note).map((m) => m.note as string))];
     return {
       key,
       label: columnLabel(key),
       summarises: summaries.length === 1 ? summaries[0] : summaries.join('; or '),
-      interval: ivs.length === 0 ? 'no interval' : ivs.join(' or '),
+      interval: ivs.length === 0 ? (notes.length === 1 ? `none (${notes[0]})` : 'none') : ivs.join(' or '),
     };
   });
   const sorted = [...result.datasets].sort(byMonthGroup);
@@ -123,7 +126,9 @@ export function overviewModel(result: AuditResult, hrefFor: (id: string) => stri
       findings: levelCounts(ds),
     });
   }
-  return { columns, groups, rowCount: sorted.length };
+  const byMonth = result.datasets.some((d) => d.month !== null);
+  const hasIntervals = result.datasets.some((d) => measureEntries(d).some(([, m]) => m.interval !== null));
+  return { columns, groups: byMonth ? groups : [{ label: '', rows: groups.flatMap((g) => g.rows) }], rowCount: sorted.length, hasIntervals };
 }
 
 /** Findings grouped by kind (code), most serious level first, then by how many datasets they touch. */
@@ -152,6 +157,9 @@ const HEADLINE: Record<'activity' | 'weights', string[]> = {
   activity: ['population_sparseness', 'lifetime_sparseness', 'density', 'kurtosis'],
   weights: ['density', 'hoyer', 'gini'],
 };
+
+/** A measure label inside a sentence: lower-case, except names of people (Hoyer, Gini). */
+export const inSentence = (label: string): string => (/^(Hoyer|Gini)\b/.test(label) ? label : label.charAt(0).toLowerCase() + label.slice(1));
 
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 const list = (xs: string[]) => (xs.length <= 1 ? xs.join('') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`);
@@ -192,17 +200,17 @@ export function verdictSentences(result: AuditResult): string[] {
       if (x < lo) lo = x;
       if (x > hi) hi = x;
     }
-    const label = measureLabel(k).toLowerCase();
+    const label = inSentence(measureLabel(k));
     return [est.length === 1 || lo === hi ? `${label} was ${formatNumber(lo)}` : `${label} ranged from ${formatNumber(lo)} to ${formatNumber(hi)}`];
   });
   if (ranges.length) s.push(`Across ${ds.length === 1 ? 'the dataset' : 'datasets'}, ${list(ranges)}.`);
-  const outs = columnOrder(result).flatMap((k) => standOut(result, k).map((o) => `${o.id} (${columnLabel(k).toLowerCase()}, ${o.side} all others)`));
+  const outs = columnOrder(result).flatMap((k) => standOut(result, k).map((o) => `${o.id} (${inSentence(columnLabel(k))}, ${o.side} all others)`));
   if (outs.length) s.push(`Outside every other dataset’s interval: ${list(outs)}.`);
   else if (ds.length >= 3) s.push('No dataset’s interval lies wholly outside all the others’.');
   if (result.drift) {
     const sig = result.drift.series.filter((x) => x.firstSignal !== null);
     const trend = result.drift.series.filter((x) => x.pAdjusted !== null && x.pAdjusted < 0.05);
-    const name = (x: (typeof sig)[number]) => `${measureLabel(x.measure).toLowerCase()}${x.group ? ` (${x.group})` : ''}`;
+    const name = (x: (typeof sig)[number]) => `${inSentence(measureLabel(x.measure))}${x.group ? ` (${x.group})` : ''}`;
     if (sig.length) {
       const firsts = [...new Set(sig.map((x) => x.firstSignal as string))].sort();
       s.push(`Drift screening flagged ${plural(sig.length, 'series', 'series')} of ${result.drift.series.length} from ${firsts[0]} on: ${list(sig.slice(0, 4).map(name))}${sig.length > 4 ? ` and ${sig.length - 4} more` : ''}.`);
