@@ -45,7 +45,8 @@ function neutralConfig(dir: string): string[] {
  * not count. null when it cannot be told safely.
  */
 export function gitDirty(dir: string): boolean | null {
-  const out = git(dir, [...neutralConfig(dir), 'status', '--porcelain', '--untracked-files=no', '--ignore-submodules=all', '--', '.']);
+  // --no-optional-locks: status must not rewrite the workspace's index as a side effect.
+  const out = git(dir, ['--no-optional-locks', ...neutralConfig(dir), 'status', '--porcelain', '--untracked-files=no', '--ignore-submodules=all', '--', '.']);
   return out === null ? null : out.trim().length > 0;
 }
 

@@ -4,7 +4,7 @@
  * Checked against real git repositories made in a temporary folder (skips without git).
  */
 import { execFileSync } from 'node:child_process';
-import { existsSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -42,7 +42,10 @@ describe.skipIf(!hasGit)('workspaceState', () => {
     writeFileSync(join(d, 'untracked.txt'), 'x'); // untracked files do not count
     expect(gitDirty(d)).toBe(false);
     writeFileSync(join(d, 'manifest.md'), '---\naudit: b\n---\n');
+    const index = statSync(join(d, '.git', 'index')).mtimeMs;
     expect(workspaceState(d)).toEqual({ commit: head, dirty: true });
+    // Reading the state writes nothing into the workspace's repository (no index refresh).
+    expect(statSync(join(d, '.git', 'index')).mtimeMs).toBe(index);
   });
 
   it('is null outside a repository', () => {
