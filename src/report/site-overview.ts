@@ -213,13 +213,31 @@ export function verdictSentences(result: AuditResult): string[] {
     const name = (x: (typeof sig)[number]) => `${inSentence(measureLabel(x.measure))}${x.group ? ` (${x.group})` : ''}`;
     if (sig.length) {
       const firsts = [...new Set(sig.map((x) => x.firstSignal as string))].sort();
-      s.push(`Drift screening flagged ${plural(sig.length, 'series', 'series')} of ${result.drift.series.length} from ${firsts[0]} on: ${list(sig.slice(0, 4).map(name))}${sig.length > 4 ? ` and ${sig.length - 4} more` : ''}.`);
+      const named = sig.slice(0, 4).map(name);
+      const shown = sig.length > 4 ? `${named.join(', ')} and ${sig.length - 4} more` : list(named);
+      s.push(`Drift screening flagged ${plural(sig.length, 'series', 'series')} of ${result.drift.series.length} from ${firsts[0]} on: ${shown}.`);
     } else s.push(`Drift screening flagged none of ${plural(result.drift.series.length, 'series', 'series')}.`);
     if (trend.length) s.push(`A monotonic trend was significant after adjustment for ${list(trend.map(name))}.`);
+    // Months where two groups measured the same month apart (difference interval excludes 0).
+    // Measures that differ in the same months for the same pair are named together.
+    const byWhen = new Map<string, string[]>();
+    for (const k of keys) {
+      const gs = result.drift.groupDifferences.filter((g) => g.measure === k && g.interval && (g.interval[0] > 0 || g.interval[1] < 0));
+      for (const pair of [...new Set(gs.map((g) => `${g.a} − ${g.b}`))]) {
+        const when = `${pair}\u0000${list(gs.filter((g) => `${g.a} − ${g.b}` === pair).map((g) => g.month))}`;
+        byWhen.set(when, [...(byWhen.get(when) ?? []), inSentence(measureLabel(k))]);
+      }
+    }
+    const apart = [...byWhen].map(([when, ms]) => {
+      const [pair, months] = when.split('\u0000');
+      return `${list(ms)} (${pair}) in ${months}`;
+    });
+    if (apart.length) s.push(`Groups measured in the same month differed, with a difference interval excluding zero: ${apart.join('; ')}.`);
   }
   const serious = findingKinds(result, () => '').filter((k) => siteData().levels.levels[k.level]?.affectsNumbers);
   if (serious.length) {
-    s.push(`Findings that can affect numbers: ${list(serious.map((k) => `${k.kind} in ${list(k.datasets.map((d) => d.id))}`))}.`);
+    const named = (ids: string[]) => (ids.length <= 4 ? ids.join(', ') : `${ids.length} datasets`);
+    s.push(`Findings that can affect numbers: ${serious.map((k) => `${k.kind} (${named(k.datasets.map((d) => d.id))})`).join('; ')}.`);
   } else s.push('No finding affects the numbers.');
   return s;
 }

@@ -14,8 +14,21 @@ describe('verdictSentences', () => {
     expect(text).toContain('2 datasets over 2 months (2024-01 to 2024-02), in 1 group (rig A).');
     expect(text).toContain('population sparseness ranged from 0.495 to 0.529, lifetime sparseness ranged from 0.692 to 0.727');
     // exclude and caution findings count; the notice (few units) does not.
-    expect(text).toContain('Findings that can affect numbers: silent bins in rig-a-2024-01, silent units in rig-a-2024-01 and session join in rig-a-2024-02.');
+    expect(text).toContain('Findings that can affect numbers: silent bins (rig-a-2024-01); silent units (rig-a-2024-01); session join (rig-a-2024-02).');
     expect(text).not.toContain('few units');
+  });
+
+  it('months where two groups differ: only differences whose interval excludes zero, headline measures only', () => {
+    const r = activityFixture();
+    r.drift!.groupDifferences = [
+      { measure: 'population_sparseness', month: '2024-01', a: 'rig A', b: 'rig B', difference: 0.01, interval: [-0.01, 0.03] },
+      { measure: 'population_sparseness', month: '2024-02', a: 'rig A', b: 'rig B', difference: 0.05, interval: [0.02, 0.08] },
+      { measure: 'gini', month: '2024-02', a: 'rig A', b: 'rig B', difference: 0.05, interval: [0.02, 0.08] },
+    ];
+    const text = verdictSentences(r).join(' ');
+    expect(text).toContain('Groups measured in the same month differed, with a difference interval excluding zero: population sparseness (rig A − rig B) in 2024-02.');
+    expect(text).not.toContain('2024-01.');
+    expect(text).not.toMatch(/Gini index \(rig A/);
   });
 
   it('weights fixture: names of people keep their capitals', () => {
