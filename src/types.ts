@@ -261,7 +261,13 @@ export interface AuditResult {
   kind: 'activity' | 'weights';
   version: string;
   created: string;
-  tool: { name: 'lacuna'; version: string; node: string; commit: string | null };
+  /**
+   * The code that computed (`version`, and `sourceCommit`: Lacuna's own git commit when it ran
+   * from a checkout) and the data it used (`commit`: the workspace's git commit, with
+   * `workspaceDirty` when tracked files had uncommitted changes). Older records lack the
+   * optional fields.
+   */
+  tool: { name: 'lacuna'; version: string; node: string; commit: string | null; sourceCommit?: string | null; workspaceDirty?: boolean | null };
   inputs: FileProvenance[];
   manifest: { path: string; sha256: string };
   parameters: Record<string, unknown>;

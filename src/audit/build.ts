@@ -16,7 +16,7 @@
  *                   place, so an interrupted build leaves the older versions intact
  */
 import { cpus } from 'node:os';
-import { execFileSync } from 'node:child_process';
+import { toolSourceCommit, workspaceState } from './git-state.ts';
 import { join } from 'node:path';
 import { findManifests, loadManifest } from '../manifest/index.ts';
 import type { ResolvedManifest } from '../manifest/types.ts';
@@ -81,14 +81,6 @@ function workerCount(text: string | undefined, jobs: number): number {
   const n = Number(text);
   if (!Number.isInteger(n) || n < 1) throw new InputError(`--workers must be "auto" or a whole number ≥ 1, got "${text}"`);
   return Math.min(n, Math.max(1, jobs));
-}
-
-function gitCommit(dir: string): string | null {
-  try {
-    return execFileSync('git', ['-C', dir, 'rev-parse', 'HEAD'], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'ignore'] }).trim() || null;
-  } catch {
-    return null;
-  }
 }
 
 /**
@@ -285,7 +277,8 @@ async function buildWithPool(
 
   // 4–5. Assemble and version.
   const summary: BuildSummary = { audits: [], computed: todo.length, cached, split, rendered: [], timings };
-  const commit = gitCommit(workspace);
+  const git = workspaceState(workspace);
+  const sourceCommit = toolSourceCommit();
   for (const m of manifests) {
     const datasets = jobs.filter((j) => j.manifest === m).map((j) => results.get(j.key)!);
     const inputs = datasets.flatMap((d) => d.files);
@@ -305,7 +298,7 @@ async function buildWithPool(
       kind: m.kind,
       version,
       created: now().toISOString(),
-      tool: { name: 'lacuna', version: TOOL_VERSION, node: process.version, commit },
+      tool: { name: 'lacuna', version: TOOL_VERSION, node: process.version, commit: git.commit, sourceCommit, workspaceDirty: git.dirty },
       inputs,
       manifest: { path: m.relFile, sha256: m.sha256 },
       parameters,

@@ -18,7 +18,7 @@ import { driftCharts } from './drift.ts';
 import { kurtosisChart } from './kurtosis.ts';
 import { layerDensityChart } from './layer-density.ts';
 import { lifetimeSparsenessChart } from './lifetime-sparseness.ts';
-import { measuresSummaryChart } from './measures-summary.ts';
+import { acrossDatasetsCharts } from './across-datasets.ts';
 import { populationSparsenessChart } from './population-sparseness.ts';
 import { thresholdCurveChart } from './threshold-curve.ts';
 import { pushAll } from '../util/arrays.ts';
@@ -29,7 +29,6 @@ export { driftCharts, driftSeriesChart } from './drift.ts';
 export { kurtosisChart } from './kurtosis.ts';
 export { layerDensityChart } from './layer-density.ts';
 export { lifetimeSparsenessChart } from './lifetime-sparseness.ts';
-export { measuresSummaryChart } from './measures-summary.ts';
 export { populationSparsenessChart } from './population-sparseness.ts';
 export { thresholdCurveChart } from './threshold-curve.ts';
 export { degreeDistributionCharts } from './degree-distribution.ts';
@@ -41,7 +40,6 @@ export function buildCharts(result: AuditResult): ChartSpec[] {
   const out: (ChartSpec | null)[] = [];
   for (const ds of result.datasets) {
     // 1. per dataset
-    out.push(measuresSummaryChart(ds));
     if (ds.kind === 'activity') {
       out.push(populationSparsenessChart(ds), populationSparsenessChart(ds, { events: true }), lifetimeSparsenessChart(ds), kurtosisChart(ds));
     } else {
@@ -49,7 +47,9 @@ export function buildCharts(result: AuditResult): ChartSpec[] {
       pushAll(out, degreeDistributionCharts(ds));
     }
   }
-  // 2. drift
+  // 2. one chart per measure across datasets (the version page's overview charts)
+  pushAll(out, acrossDatasetsCharts(result.datasets));
+  // 3. drift
   if (result.drift) pushAll(out, driftCharts(result.drift));
   const charts = out.filter((c): c is ChartSpec => c !== null);
   // Ids must be unique on a page: suffix repeats (two dataset ids that slug alike).

@@ -13,7 +13,7 @@
  * | `negative-units-refused`    | exclude | `refuse`: units with negatives left out of the sparseness measures    |
  * | `saturated-units`           | caution | ≥ 1% of a unit's defined bins and ≥ 5 cells at its maximum (`isSaturated`) |
  * | `duplicate-units`           | caution | rows with identical 64-bit hashes; `where` names the pairs            |
- * | `kurtosis-too-few-nonzero`  | exclude | fewer than `minNonzero` nonzero bins: kurtosis not reported           |
+ * | `kurtosis-too-few-nonzero`  | notice  | fewer than `minNonzero` nonzero bins: kurtosis not reported (routine) |
  * | `sparseness-out-of-range`   | caution | `keep`: lifetime or population S > 1 (negative values)                |
  * | `events-undefined-units`    | exclude | event detection on: no baseline cell or MAD = 0, so no threshold      |
  *
@@ -102,7 +102,7 @@ export function activityFindings(result: ActivityPassResult, options: ActivityFi
   }
   if (t.kurtosisTooFewUnits > 0) {
     const w = unitsWhere((u) => U.kurtosisTooFew[u] === 1);
-    add('exclude', 'kurtosis-too-few-nonzero', `${plural(t.kurtosisTooFewUnits, 'unit')} with fewer than ${result.options.minNonzero} nonzero bins: kurtosis not reported for them.`, w.where, t.kurtosisTooFewUnits);
+    add('notice', 'kurtosis-too-few-nonzero', `${plural(t.kurtosisTooFewUnits, 'unit')} with fewer than ${result.options.minNonzero} nonzero bins: kurtosis not reported for them.`, w.where, t.kurtosisTooFewUnits);
   }
   if (t.lifetimeOutOfRangeUnits + t.populationOutOfRangeBins > 0) {
     const w = unitsWhere((u) => U.lifetimeSparseness[u] > 1 + RANGE_SLACK);

@@ -14,9 +14,10 @@ import Eleventy from '@11ty/eleventy';
 import type { EleventyUserConfig } from '@11ty/eleventy';
 import { fileURLToPath } from 'node:url';
 import { InternalError } from '../errors.ts';
+import { siteData } from './site-data.ts';
 
 /** Kinds of page the templates know (`templates/_includes/page-<kind>.njk`). */
-export type PageKind = 'report' | 'drift' | 'compare' | 'audit' | 'latest' | 'site';
+export type PageKind = 'report' | 'dataset' | 'drift' | 'compare' | 'audit' | 'latest' | 'site';
 
 /** One output page: where it goes, its layout data and its model. */
 export interface PageData {
@@ -78,6 +79,8 @@ export async function writePages(pages: PageData[], outDir: string): Promise<voi
     config(cfg) {
       configureLacunaSite(cfg);
       cfg.addGlobalData('pages', pages);
+      // Site-wide words from `_data/` (JSON, read by site-data.ts): page labels and the like.
+      cfg.addGlobalData('lacuna', siteData());
     },
   });
   elev.disableLogger();

@@ -11,14 +11,20 @@
 import type { AuditResult, DatasetResult, IntervalRecord, MeasureResult } from '../types.ts';
 import { measureLabel } from '../charts/format.ts';
 import { citeText } from './citations.ts';
+import { findingKind } from './site-data.ts';
 
 const OPEN = '\u0001';
 const CLOSE = '\u0002';
 /** Mark user text: escaped in Markdown, verbatim in plain text. */
 const u = (s: string): string => `${OPEN}${s.replace(/[\u0001\u0002]/g, '')}${CLOSE}`;
 
+/**
+ * Escape only what can start Markdown inline syntax inside running text (emphasis, code, links,
+ * HTML, strikethrough): parentheses, pipes and the like stay as they are, so methods.md reads as
+ * plain prose. The text is always mid-paragraph, so block markers (`#`, `+`) need no escape.
+ */
 function escapeMarkdown(s: string): string {
-  return s.replace(/[\\`*_{}[\]<>()#+!|~]/g, (ch) => `\\${ch}`);
+  return s.replace(/[\\`*_[\]<>~]/g, (ch) => `\\${ch}`);
 }
 
 function render(text: string): { markdown: string; plain: string } {
@@ -74,6 +80,27 @@ function records(result: AuditResult): Rec[] {
   return out;
 }
 
+/** Whether any dataset had negative values (the readers and the pass report them as findings). */
+export function hadNegatives(result: AuditResult): boolean {
+  return result.datasets.some((d) => d.findings.some((f) => f.code === 'negative-values' || f.code === 'negative-units-refused'));
+}
+
+/** A count with thousands separators (`72,000`). */
+const count = (n: number): string => Math.round(n).toLocaleString('en-US');
+
+/** `from 71 to 129 bins`, or `78 bins` when all are equal. */
+function blockRange(lens: (number | null)[]): string {
+  const xs = lens.filter((x): x is number => x !== null);
+  if (!xs.length) return 'not recorded';
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const x of xs) {
+    if (x < lo) lo = x;
+    if (x > hi) hi = x;
+  }
+  return lo === hi ? `${lo} bins` : `from ${lo} to ${hi} bins`;
+}
+
 const labelOf = (name: string) => (name.startsWith('event ') ? `event-based ${measureLabel(name.slice(6))}` : measureLabel(name));
 
 function measuresParagraph(result: AuditResult, c: ReturnType<typeof citer>): string {
@@ -89,11 +116,16 @@ function measuresParagraph(result: AuditResult, c: ReturnType<typeof citer>): st
   if (result.kind === 'activity') {
     const units = result.datasets.reduce((a, d) => a + (d.shape[0] ?? 0), 0);
     const bins = result.datasets.reduce((a, d) => a + (d.shape[1] ?? 0), 0);
-    what += axis === 'stimuli' ? ` (${units} units in total, responses to ${bins} stimuli)` : ` (${units} units in total; ${bins} time bins${binMs !== null ? ` of ${binMs} ms` : ''})`;
+    what += axis === 'stimuli' ? ` (${count(units)} units in total, responses to ${count(bins)} stimuli)` : ` (${count(units)} units in total; ${count(bins)} time bins${binMs !== null ? ` of ${binMs} ms` : ''})`;
   }
-  s.push(`Sparseness was measured with Lacuna ${u(t.version)}${t.commit ? ` (commit ${u(t.commit)}; Node ${u(t.node)})` : ` (Node ${u(t.node)})`} on ${what}.`);
+  // The code that computed (the tool, and its own commit when it runs from a checkout) and the
+  // data it used (the workspace's commit) are different things, and are said apart.
+  const source = t.sourceCommit ? `, source commit ${u(t.sourceCommit.slice(0, 12))}` : '';
+  s.push(`Sparseness was measured with Lacuna ${u(t.version)} (Node ${u(t.node)}${source}) on ${what}.`);
+  if (t.commit) s.push(`The manifest and data were those of workspace commit ${u(t.commit.slice(0, 12))}${t.workspaceDirty ? ', with uncommitted changes in the workspace' : ''}; every input file is identified by its SHA-256 in the report.`);
   const tol = num(p.zero_tolerance);
-  if (tol !== null) s.push(`A value counted as zero when its magnitude was at most ${tol} (the zero tolerance).`);
+  if (tol === 0) s.push('Only values exactly equal to zero counted as zero.');
+  else if (tol !== null) s.push(`A value counted as zero when its magnitude was at most ${tol} (the zero tolerance).`);
   const neg = str(p.negatives);
   const negText: Record<string, string> = {
     keep: 'Negative values were kept as recorded; they can push sparseness above 1, and each dataset that had them carries a finding.',
@@ -101,7 +133,8 @@ function measuresParagraph(result: AuditResult, c: ReturnType<typeof citer>): st
     shift: 'Each unit with negative values was shifted so that its smallest value was zero for the sparseness measures, activity ratio, Hoyer and Gini; density, skewness and kurtosis used the raw values.',
     refuse: 'Units with negative values were left out of the sparseness measures, activity ratio, Hoyer and Gini; density, skewness and kurtosis used the raw values.',
   };
-  if (neg && result.kind === 'activity') s.push(negText[neg] ?? `Negative values: policy ${u(neg)}.`);
+  // A policy that did nothing is not a method: say it only when some dataset had negative values.
+  if (neg && result.kind === 'activity' && hadNegatives(result)) s.push(negText[neg] ?? `Negative values: policy ${u(neg)}.`);
   if (result.kind === 'weights') s.push('Weights keep their sign; the Hoyer and Gini measures and density use their magnitudes |*w*|.');
   if (has('population_sparseness') || has('lifetime_sparseness') || has('activity_ratio')) {
     s.push(
@@ -178,10 +211,13 @@ function intervalParagraph(result: AuditResult, c: ReturnType<typeof citer>): st
     });
     const auto = perDs.some((d) => d.choice === 'auto');
     const lens = perDs.map((d) => `${d.len} bins (${u(d.id)}${d.choice === 'set' ? ', set in the manifest' : ''})`);
+    // Past a handful of datasets the list stops being readable: give the range (each dataset's
+    // length is on its page and in results.json).
+    const many = perDs.length > 4 ? blockRange(perDs.map((d) => d.len)) : null;
     s.push(
       `For ${list(uniq(blockRecs.map((x) => labelOf(x.name))))}, which are computed per time bin and may be autocorrelated, a moving-block bootstrap (${c.cite('kunsch1989')}) resampled blocks of consecutive bins; ` +
-        (auto ? `the block length was chosen automatically for each dataset (${c.cite('politis2004', 'patton2009')}): ` : 'the block length was ') +
-        `${list(lens)}.`,
+        (auto ? `the block length was chosen automatically for each dataset (${c.cite('politis2004', 'patton2009')})` : 'the block length was') +
+        (many ? `${auto ? ', ' : ' '}${many} across the ${perDs.length} datasets.` : `${auto ? ': ' : ' '}${list(lens)}.`),
     );
   }
   const without: string[] = [];
@@ -191,14 +227,39 @@ function intervalParagraph(result: AuditResult, c: ReturnType<typeof citer>): st
   return s.join(' ');
 }
 
-function exclusionsAndDrift(result: AuditResult, c: ReturnType<typeof citer>): string {
-  const s: string[] = [];
-  const ex = result.datasets.flatMap((d) => d.findings.filter((f) => f.level === 'exclude').map((f) => ({ d, f })));
-  if (ex.length) {
-    s.push(`Data left out (${ex.length} finding${ex.length === 1 ? '' : 's'}): ${ex.map(({ d, f }) => `${u(d.id)}, ${u(f.code)} (${f.count}): ${u(f.message.replace(/\.\s*$/, ''))}`).join('; ')}.`);
-  } else {
-    s.push('No data were left out by an exclusion finding.');
+/**
+ * The findings in words, by kind, with their total counts and the datasets concerned (no
+ * internal codes): what was left out, what may bias an estimate, and what was routine.
+ */
+function findingSentences(result: AuditResult): string[] {
+  const byKind = new Map<string, { level: string; kind: string; count: number; datasets: string[] }>();
+  for (const d of result.datasets) {
+    for (const f of d.findings) {
+      const key = `${f.level}\u0000${f.code}`;
+      const k = byKind.get(key) ?? { level: f.level, kind: findingKind(f.code), count: 0, datasets: [] };
+      k.count += f.count;
+      if (!k.datasets.includes(d.id)) k.datasets.push(d.id);
+      byKind.set(key, k);
+    }
   }
+  const phrase = (level: string) =>
+    list(
+      [...byKind.values()]
+        .filter((k) => k.level === level)
+        .map((k) => `${u(k.kind)} (${count(k.count)}, in ${k.datasets.length <= 3 ? list(k.datasets.map(u)) : `${k.datasets.length} datasets`})`),
+    );
+  const s: string[] = [];
+  const ex = phrase('exclude');
+  const ca = phrase('caution');
+  const no = phrase('notice');
+  s.push(ex ? `Data that could not be measured were left out and counted: ${ex}.` : 'No data were left out as unmeasurable.');
+  if (ca) s.push(`Possible sources of bias were flagged: ${ca}.`);
+  if (no) s.push(`Routine findings, expected by the definitions of the measures or the formats: ${no}.`);
+  return s;
+}
+
+function exclusionsAndDrift(result: AuditResult, c: ReturnType<typeof citer>): string {
+  const s: string[] = [...findingSentences(result)];
   s.push('The number of items each estimate summarises and the number left out are listed with every estimate.');
   const dr = result.drift;
   if (dr) {
@@ -209,12 +270,17 @@ function exclusionsAndDrift(result: AuditResult, c: ReturnType<typeof citer>): s
         ? `an exponentially weighted moving-average chart (${c.cite('roberts1959')}; λ = ${num(ds.ewma_lambda)}, limits at ±${num(ds.ewma_L)}σ)`
         : `a tabular CUSUM chart (${c.cite('page1954')}; *K* = ${num(ds.cusum_k)}σ, *H* = ${num(ds.cusum_h)}σ)`;
     const adj = dr.adjustment === 'holm' ? ` with Holm’s procedure (${c.cite('holm1979')})` : dr.adjustment === 'bh' ? ` with the Benjamini–Hochberg procedure (${c.cite('benjamini1995')})` : '';
+    const months = dr.months.length;
+    const span = months ? ` (${u(dr.months[0])}${months > 1 ? ` to ${u(dr.months[months - 1])}` : ''})` : '';
     s.push(
-      `Monthly estimates (${dr.months.length} months, ${u(dr.months[0] ?? '')} to ${u(dr.months[dr.months.length - 1] ?? '')}; ${u(dr.pooling)}) were screened for drift with ${chart}` +
-        (base !== null ? ` against a baseline of the first ${base} months` : '') +
-        `; monotonic trends were tested with the Mann–Kendall test (${c.cite('gilbert1987')}) and sized with the Theil–Sen slope (${c.cite('sen1968')}), ` +
+      `Monthly estimates over ${months} month${months === 1 ? '' : 's'}${span} were screened for drift with ${chart}` +
+        (base !== null ? ` against a baseline of the first ${base} month${base === 1 ? '' : 's'}` : '') +
+        `; monotonic trends were tested with the Mann–Kendall test (${c.cite('gilbert1987')}) and sized with the Theil–Sen slope (${c.cite('theil1950', 'sen1968')}), ` +
         (dr.adjustment === 'none' ? `without adjustment of the ${dr.testsRun} p-values.` : `and the p-values of the ${dr.testsRun} tests were adjusted${adj}.`),
     );
+    // The pooling rule is a sentence of its own (it carries its own parentheses and colon).
+    const pooling = dr.pooling.trim();
+    if (pooling) s.push(/[.!?]$/.test(pooling) ? u(pooling) : `${u(pooling)}.`);
   }
   return s.join(' ');
 }
@@ -240,12 +306,14 @@ export function cautionsText(result: AuditResult): { markdown: string; plain: st
   }
   if (kinds.includes('blocks-of-bins')) {
     const lens = uniq(recs.filter((x) => x.r.resampling === 'blocks-of-bins').map((x) => x.r.blockLength));
-    items.push(`Moving-block intervals assume the bin series is stationary and that its dependence is shorter than the block length (${lens.join(', ')} bins); slow drift within a recording, or dependence longer than a block, makes them too narrow.`);
+    const said = lens.length > 4 ? blockRange(lens) : `${lens.join(', ')} bins`;
+    items.push(`Moving-block intervals assume the bin series is stationary and that its dependence is shorter than the block length (${said}); slow drift within a recording, or dependence longer than a block, makes them too narrow.`);
   }
   if (result.drift) items.push('Drift flags (control-chart signals and trend tests) are screening aids, not tests of a hypothesis fixed in advance: a flagged month asks for a look at the data and the lab’s notes, and thin months carry little weight.');
   const neg = str(result.parameters.negatives);
-  if (result.kind === 'activity' && neg === 'keep') items.push('Negative values were kept, so sparseness values above 1 can occur; they reflect baseline subtraction, not a sparser code.');
-  if (result.kind === 'activity' && (neg === 'rectify' || neg === 'shift')) items.push(`Negative values were ${neg === 'rectify' ? 'set to zero' : 'shifted'}; the measures then depend on how the baseline was subtracted upstream.`);
+  const negs = hadNegatives(result);
+  if (result.kind === 'activity' && negs && neg === 'keep') items.push('Negative values were kept, so sparseness values above 1 can occur; they reflect baseline subtraction, not a sparser code.');
+  if (result.kind === 'activity' && negs && (neg === 'rectify' || neg === 'shift')) items.push(`Negative values were ${neg === 'rectify' ? 'set to zero' : 'shifted'}; the measures then depend on how the baseline was subtracted upstream.`);
   const ev = result.parameters.events !== null && result.parameters.events !== undefined;
   if (ev || result.datasets.some((d) => d.eventMeasures && Object.keys(d.eventMeasures).length > 0)) {
     items.push('Sparseness of events detected in fluorescence traces depends on the indicator’s kinetics and on the detection threshold; it is not directly comparable with sparseness of spike counts.');

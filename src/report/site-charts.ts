@@ -21,6 +21,34 @@ export interface ChartModel {
   specJson: string | null;
   /** `figures/<file>.svg`, relative to the version folder; null when there is no SVG. */
   file: string | null;
+  /**
+   * Whether the caption's description folds away under a summary line (it stays the figure's
+   * text alternative): for charts whose numbers a table on the same page already gives.
+   */
+  foldCaption: boolean;
+  /**
+   * A chart too large to inline (`INLINE_CHART_MAX`): the page shows the SVG file as an image
+   * and loads the spec from `specScript` (relative to the version folder), so no page grows
+   * with the data. Both null/false for an ordinary chart.
+   */
+  svgAsImage: boolean;
+  specScript: string | null;
+}
+
+/**
+ * Most characters of inline SVG plus spec JSON one chart may add to a page. Past it, the SVG is
+ * shown from its figure file and the spec loads from a script beside it; a page with a handful
+ * of such charts stays well under 2 MB.
+ */
+export const INLINE_CHART_MAX = 300 * 1024;
+
+/**
+ * The script that hands a spec to `site-client.js` without inlining it: pages opened from
+ * `file://` cannot fetch a JSON file, but they can load a script. The spec is `scriptJson`
+ * output (no `<`, `>`, `&` or line separators), a valid JavaScript expression.
+ */
+export function specScriptText(holderId: string, specJson: string): string {
+  return `(window.lacunaSpecs = window.lacunaSpecs || {})[${JSON.stringify(holderId)}] = ${specJson};\n`;
 }
 
 /**
@@ -61,6 +89,8 @@ export interface ChartModelOptions {
   compile: ((spec: Record<string, unknown>) => Record<string, unknown>) | null;
   /** Ids already used on the page (section anchors), to keep figure anchors unique. */
   slugger?: (text: string) => string;
+  /** Largest inline SVG + spec per chart, in characters (default `INLINE_CHART_MAX`). */
+  inlineMax?: number;
 }
 
 /**
@@ -91,10 +121,20 @@ export function chartModels(charts: ChartSpec[], options: ChartModelOptions): { 
       svg,
       specJson,
       file: svg ? `figures/${fileSlugger(c.id)}.svg` : null,
+      foldCaption: false,
+      svgAsImage: false,
+      specScript: null,
     };
   });
+  const max = options.inlineMax ?? INLINE_CHART_MAX;
+  for (const m of out) {
+    if ((m.svg?.length ?? 0) + (m.specJson?.length ?? 0) <= max) continue;
+    if (m.file) m.svgAsImage = true;
+    if (m.specJson) m.specScript = m.file ? m.file.replace(/\.svg$/, '.spec.js') : `figures/${m.anchor}.spec.js`;
+  }
   return { charts: out, problems };
 }
+
 
 /** Charts that belong on the drift page rather than the report: no dataset, id starting `drift-`. */
 export function isDriftChart(c: { id: string; datasetId: string | null }): boolean {

@@ -31,13 +31,17 @@
 
   var holders = document.querySelectorAll('[data-vega-spec]');
   Array.prototype.forEach.call(holders, function (holder) {
-    var source = document.getElementById(holder.getAttribute('data-vega-spec'));
-    if (!source) return;
-    var spec;
-    try {
-      spec = JSON.parse(source.textContent);
-    } catch (e) {
-      return;
+    // Inline as inert JSON, or (a chart too large to inline) set by a script beside the figure.
+    var id = holder.getAttribute('data-vega-spec');
+    var source = document.getElementById(id);
+    var spec = window.lacunaSpecs && Object.prototype.hasOwnProperty.call(window.lacunaSpecs, id) ? window.lacunaSpecs[id] : null;
+    if (!spec) {
+      if (!source) return;
+      try {
+        spec = JSON.parse(source.textContent);
+      } catch (e) {
+        return;
+      }
     }
     var target = document.createElement('div');
     target.className = 'chart-live';

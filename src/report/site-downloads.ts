@@ -8,6 +8,7 @@ import { mkdir, writeFile } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import type { AuditResult } from '../types.ts';
 import type { ChartModel } from './site-charts.ts';
+import { specScriptText } from './site-charts.ts';
 import type { VersionTexts } from './site-texts.ts';
 
 /**
@@ -22,9 +23,11 @@ export async function writeDownloads(result: AuditResult, models: ChartModel[], 
     ['summary.tex', texts.latex],
     ['references.bib', texts.bib],
     ['methods.md', texts.methods.markdown.endsWith('\n') ? texts.methods.markdown : `${texts.methods.markdown}\n`],
+    ['methods.txt', texts.methods.plain.endsWith('\n') ? texts.methods.plain : `${texts.methods.plain}\n`],
   ];
   for (const m of models) {
     if (m.file && m.svg) files.push([m.file, `<?xml version="1.0" encoding="utf-8"?>\n${m.svg}\n`]);
+    if (m.specScript && m.specJson) files.push([m.specScript, specScriptText(`${m.anchor}-spec`, m.specJson)]);
   }
   for (const [name, text] of files) {
     const path = join(targetDir, name);

@@ -108,22 +108,46 @@ export interface CompareModel {
   summary: string;
   inputs: { path: string; change: string }[];
   parameters: { name: string; from: string; to: string }[];
+  /** Only datasets that were added, removed or changed, or whose estimates moved. */
   datasets: {
     id: string;
     change: string;
+    /** Only the measures whose estimate changed. */
     measures: { measure: string; from: string; to: string; delta: string; relative: string; overlap: string }[];
   }[];
+  /** One line for everything that did not change (`The other 11 datasets: no estimate changed.`), or ''. */
+  unchanged: string;
 }
 
-/** Build the comparison page model; unchanged datasets are kept (marked `same`) so nothing is hidden. */
+/** A measure moved when its estimate changed, or appeared, or vanished. */
+function moved(m: VersionComparison['datasets'][number]['measures'][number]): boolean {
+  if (m.from === null || m.to === null) return m.from !== m.to;
+  return m.delta !== 0 || m.from !== m.to;
+}
+
+/**
+ * Build the comparison page model: what changed and nothing else. Unchanged datasets and
+ * measures are counted in one line instead of shown as tables of zeros.
+ */
 export function compareModel(c: VersionComparison): CompareModel {
+  const shown = c.datasets
+    .map((d) => ({ ...d, measures: d.measures.filter(moved) }))
+    .filter((d) => d.change !== 'same' || d.measures.length > 0);
+  const rest = c.datasets.length - shown.length;
+  const steady = shown.reduce((k, d) => k + (c.datasets.find((x) => x.id === d.id)?.measures.length ?? 0) - d.measures.length, 0);
+  const parts: string[] = [];
+  if (rest > 0) {
+    const who = shown.length ? (rest === 1 ? 'The other dataset' : `The other ${rest} datasets`) : rest === 1 ? 'The one dataset' : `All ${rest} datasets`;
+    parts.push(`${who}: no estimate changed`);
+  }
+  if (steady > 0) parts.push(`${steady} other ${steady === 1 ? 'estimate' : 'estimates'} of the datasets above unchanged`);
   return {
     from: c.from,
     to: c.to,
     summary: c.summary,
     inputs: c.inputs.map((i) => ({ path: i.path, change: i.change })),
     parameters: c.parameters.map((p) => ({ name: p.name, from: formatValue(p.from), to: formatValue(p.to) })),
-    datasets: c.datasets.map((d) => ({
+    datasets: shown.map((d) => ({
       id: d.id,
       change: d.change,
       measures: d.measures.map((m) => ({
@@ -135,6 +159,7 @@ export function compareModel(c: VersionComparison): CompareModel {
         overlap: m.overlap === null ? 'no interval to compare' : m.overlap ? 'intervals overlap' : 'intervals do not overlap',
       })),
     })),
+    unchanged: parts.length ? `${parts.join('; ')}.` : '',
   };
 }
 

@@ -4,57 +4,27 @@
  * `notesHtml` and `methodsHtml`, which come from `renderMarkdown` (escaped, links checked).
  */
 import type { AuditResult, DatasetResult, Finding, FindingLevel, MeasureResult } from '../types.ts';
-import { FINDING_LEVELS } from '../types.ts';
 import type { ChartModel } from './site-charts.ts';
 import { isDriftChart } from './site-charts.ts';
-import { describeInterval, formatBytes, formatCount, formatDate, formatInterval, formatLevel, formatMethod, formatNumber, formatValue, measureLabel } from './site-format.ts';
+import { describeInterval, formatBytes, formatCount, formatDate, formatInterval, formatNumber, formatValue, measureLabel, uniqueSlugger } from './site-format.ts';
+import { findingKind, siteData } from './site-data.ts';
+import type { FindingKindItem, OverviewModel } from './site-overview.ts';
+import { findingKinds, measureEntries, overviewModel, verdictSentences } from './site-overview.ts';
 import { renderMarkdown } from './markdown.ts';
 import { pushAll } from '../util/arrays.ts';
 
-export interface SummaryRow {
-  dataset: string;
-  datasetAnchor: string;
-  measure: string;
-  /** `event-based` for event measures, '' otherwise. */
-  variant: string;
-  estimate: string;
-  interval: string;
-  level: string;
-  method: string;
-  intervalDetail: string;
-  n: string;
-  excluded: string;
-  summary: string;
-  note: string;
-}
-
-export interface FindingItem {
-  dataset: string;
-  datasetAnchor: string;
-  code: string;
-  message: string;
-  where: string[];
-  count: string;
-}
-
-export interface FindingGroup {
-  level: FindingLevel;
-  /** What the level means, in one sentence. */
-  meaning: string;
-  items: FindingItem[];
-  /** Number of findings at this level (each item carries its own count of units, bins or files). */
-  findings: number;
-}
-
 export interface DatasetSection {
   id: string;
-  anchor: string;
+  /** Link from the version page to the dataset's own page. */
+  href: string;
   kind: string;
   shape: string;
   month: string;
   group: string;
   files: { path: string; sha256: string; size: string; bytes: string }[];
   findings: { exclude: number; caution: number; notice: number };
+  /** Every finding of the dataset, most serious level first, in words. */
+  findingList: { level: FindingLevel; kind: string; code: string; message: string; where: string[]; count: string }[];
   /** One sentence per measure: estimate, interval (level, method, resampling, seed), n, excluded. */
   sentences: string[];
   charts: ChartModel[];
@@ -80,13 +50,17 @@ export interface ReportModel {
     parameters: { name: string; value: string }[];
     seeds: string[];
   };
-  /** Whether the provenance block starts open (closed when the input list is long). */
-  provenanceOpen: boolean;
-  summaryGroups: { dataset: string; anchor: string; rows: SummaryRow[] }[];
-  summaryCount: number;
-  findingGroups: FindingGroup[];
-  datasets: DatasetSection[];
-  overviewCharts: ChartModel[];
+  /** One line for the closed provenance block: files, total size, manifest hash. */
+  provenanceLine: string;
+  /** The verdict paragraph, sentence by sentence. */
+  verdict: string[];
+  overview: OverviewModel;
+  /** Findings grouped by kind, most serious level first. */
+  findingKinds: FindingKindItem[];
+  /** What each level means for the reader, in level order. */
+  levels: { level: FindingLevel; title: string; meaning: string; count: number }[];
+  /** One chart per measure across datasets (`across-` charts without a dataset). */
+  acrossCharts: ChartModel[];
   methodsHtml: string;
   methodsPlain: string;
   cautions: string[];
@@ -103,12 +77,6 @@ export interface ReportTexts {
   methods: { markdown: string; plain: string };
   cautions: string[];
 }
-
-export const LEVEL_MEANING: Record<FindingLevel, string> = {
-  exclude: 'Data were left out of a measure; every excluded item is counted in the summary table.',
-  caution: 'The numbers stand, but read them with this in mind.',
-  notice: 'Worth knowing; no number changed because of it.',
-};
 
 /** Flatten nested parameters to dotted names: `bootstrap.seed = 20240117`. */
 export function flattenParameters(params: Record<string, unknown>, prefix = ''): { name: string; value: string }[] {
@@ -138,30 +106,6 @@ export function collectSeeds(result: AuditResult): string[] {
   return out;
 }
 
-function measureEntries(ds: DatasetResult): [string, MeasureResult][] {
-  const plain = Object.entries(ds.measures) as [string, MeasureResult][];
-  const events = (Object.entries(ds.eventMeasures ?? {}) as [string, MeasureResult][]).map(([k, m]) => [`${k} (event-based)`, m] as [string, MeasureResult]);
-  return [...plain, ...events];
-}
-
-function summaryRow(ds: DatasetResult, anchor: string, name: string, m: MeasureResult, event: boolean): SummaryRow {
-  return {
-    dataset: ds.id,
-    datasetAnchor: anchor,
-    measure: measureLabel(name),
-    variant: event ? 'event-based' : '',
-    estimate: formatNumber(m.estimate),
-    interval: formatInterval(m.interval),
-    level: m.interval ? formatLevel(m.level) : '',
-    method: m.interval ? formatMethod(m.method) : '',
-    intervalDetail: describeInterval(m),
-    n: formatCount(m.n),
-    excluded: formatCount(m.excluded),
-    summary: m.summary,
-    note: m.note ?? (m.estimate === null ? 'no estimate' : ''),
-  };
-}
-
 /** `Lifetime sparseness 0.692, 95% BCa bootstrap interval [0.609, 0.771] (…), n = 11, 1 excluded. Mean over …` */
 export function measureSentence(name: string, m: MeasureResult, event: boolean): string {
   const label = `${measureLabel(name)}${event ? ' (event-based)' : ''}`;
@@ -180,18 +124,33 @@ function countLevels(findings: Finding[]) {
   return c;
 }
 
-/** Group every dataset's findings by level, most serious first; empty levels are kept (and say so). */
-export function groupFindings(result: AuditResult, anchors: Map<string, string>): FindingGroup[] {
-  return FINDING_LEVELS.map((level) => {
-    const items: FindingItem[] = [];
-    for (const ds of result.datasets) {
-      for (const f of ds.findings) {
-        if (f.level !== level) continue;
-        items.push({ dataset: ds.id, datasetAnchor: anchors.get(ds.id) ?? '', code: f.code, message: f.message, where: f.where, count: formatCount(f.count) });
-      }
-    }
-    return { level, meaning: LEVEL_MEANING[level], items, findings: items.length };
-  });
+/** Where a dataset's own page lives, relative to the version folder (`datasets/<slug>/`). */
+export function datasetPaths(result: AuditResult): Map<string, string> {
+  const slugger = uniqueSlugger();
+  return new Map(result.datasets.map((ds) => [ds.id, `datasets/${slugger(ds.id)}/`]));
+}
+
+/** Everything a dataset's own page shows: facts, charts, findings, files, each measure in words. */
+export function datasetSection(ds: DatasetResult, href: string, charts: ChartModel[]): DatasetSection {
+  const order = siteData().levels.order;
+  return {
+    id: ds.id,
+    href,
+    kind: ds.kind,
+    shape: ds.kind === 'activity' && ds.shape.length === 2 ? `${formatCount(ds.shape[0])} units × ${formatCount(ds.shape[1])} bins` : ds.shape.length ? ds.shape.join(' × ') : 'several tensors (see charts)',
+    month: ds.month ?? 'not set',
+    group: ds.group ?? 'not set',
+    files: fileRows(ds.files),
+    findings: countLevels(ds.findings),
+    findingList: [...ds.findings]
+      .sort((x, y) => order.indexOf(x.level) - order.indexOf(y.level))
+      .map((f) => ({ level: f.level, kind: findingKind(f.code), code: f.code, message: f.message, where: f.where, count: formatCount(f.count) })),
+    sentences: [
+      ...(Object.entries(ds.measures) as [string, MeasureResult][]).map(([k, m]) => measureSentence(k, m, false)),
+      ...(Object.entries(ds.eventMeasures ?? {}) as [string, MeasureResult][]).map(([k, m]) => measureSentence(k, m, true)),
+    ],
+    charts,
+  };
 }
 
 /** The downloads every version folder holds (figures are listed per chart). */
@@ -199,66 +158,54 @@ export const DOWNLOADS: Download[] = [
   { file: 'results.json', label: 'results.json', what: 'everything on this page, machine-readable (the audit result)' },
   { file: 'summary.csv', label: 'summary.csv', what: 'the summary table as comma-separated values' },
   { file: 'summary.md', label: 'summary.md', what: 'the summary table as a Markdown table' },
-  { file: 'summary.tex', label: 'summary.tex', what: 'the summary table as a LaTeX tabular' },
-  { file: 'methods.md', label: 'methods.md', what: 'the methods paragraph, ready to paste' },
+  { file: 'summary.tex', label: 'summary.tex', what: 'the overview table (a row per dataset, a column per measure) as a LaTeX longtable; the packages it needs are named at its top' },
+  { file: 'methods.md', label: 'methods.md', what: 'the methods paragraph as Markdown' },
+  { file: 'methods.txt', label: 'methods.txt', what: 'the methods paragraph as plain text, ready to paste' },
   { file: 'references.bib', label: 'references.bib', what: 'BibTeX entries for the methods cited' },
 ];
 
 /**
- * Build the report page model. `anchorFor` hands out unique ids; `charts` are already prepared
- * (`chartModels`), and charts with a `datasetId` go to that dataset's section, drift charts to
- * the drift page, the rest to an overview section.
+ * Build the version page model. `charts` are already prepared (`chartModels`); only charts
+ * across datasets (no `datasetId`, not drift) appear here: each dataset's charts are on its own
+ * page (`datasetSection`).
  */
 export function reportModel(
   result: AuditResult,
   charts: ChartModel[],
   texts: ReportTexts,
-  extra: { hasCompare: boolean; anchorFor: (text: string) => string; figures: { file: string; title: string }[] },
+  extra: { hasCompare: boolean; figures: { file: string; title: string }[]; datasetHref: Map<string, string> },
 ): ReportModel {
-  const anchors = new Map(result.datasets.map((ds) => [ds.id, extra.anchorFor(`ds-${ds.id}`)]));
-  const pageCharts = charts.filter((c) => !isDriftChart(c));
-  const summaryGroups = result.datasets.map((ds) => {
-    const a = anchors.get(ds.id) ?? '';
-    const rows = [
-      ...(Object.entries(ds.measures) as [string, MeasureResult][]).map(([k, m]) => summaryRow(ds, a, k, m, false)),
-      ...(Object.entries(ds.eventMeasures ?? {}) as [string, MeasureResult][]).map(([k, m]) => summaryRow(ds, a, k, m, true)),
-    ];
-    return { dataset: ds.id, anchor: a, rows };
-  }).filter((g) => g.rows.length > 0);
+  const hrefFor = (id: string) => `${extra.datasetHref.get(id) ?? ''}index.html`;
+  const data = siteData().levels;
+  const bytes = result.inputs.reduce((k, f) => k + f.bytes, 0);
   return {
     audit: result.audit,
     title: result.title,
     version: result.version,
     created: formatDate(result.created),
-    tool: `${result.tool.name} ${result.tool.version}`,
+    tool: `${result.tool.name} ${result.tool.version}${result.tool.sourceCommit ? ` (source commit ${result.tool.sourceCommit.slice(0, 12)})` : ''}`,
     node: result.tool.node,
-    commit: result.tool.commit ?? 'not recorded (workspace is not a git repository, or git was unavailable)',
+    commit: result.tool.commit
+      ? `${result.tool.commit}${result.tool.workspaceDirty ? ' (with uncommitted changes when built)' : ''}`
+      : 'not recorded (workspace is not a git repository, or git was unavailable)',
     provenance: {
       inputs: fileRows(result.inputs),
       manifest: result.manifest,
       parameters: flattenParameters(result.parameters),
       seeds: collectSeeds(result),
     },
-    provenanceOpen: result.inputs.length <= 12,
-    summaryGroups,
-    summaryCount: summaryGroups.reduce((k, g) => k + g.rows.length, 0),
-    findingGroups: groupFindings(result, anchors),
-    datasets: result.datasets.map((ds) => ({
-      id: ds.id,
-      anchor: anchors.get(ds.id) ?? '',
-      kind: ds.kind,
-      shape: ds.kind === 'activity' && ds.shape.length === 2 ? `${formatCount(ds.shape[0])} units × ${formatCount(ds.shape[1])} bins` : ds.shape.length ? ds.shape.join(' × ') : 'several tensors (see charts)',
-      month: ds.month ?? 'not set',
-      group: ds.group ?? 'not set',
-      files: fileRows(ds.files),
-      findings: countLevels(ds.findings),
-      sentences: [
-        ...(Object.entries(ds.measures) as [string, MeasureResult][]).map(([k, m]) => measureSentence(k, m, false)),
-        ...(Object.entries(ds.eventMeasures ?? {}) as [string, MeasureResult][]).map(([k, m]) => measureSentence(k, m, true)),
-      ],
-      charts: pageCharts.filter((c) => c.datasetId === ds.id),
+    provenanceLine: `${formatCount(result.inputs.length)} input ${result.inputs.length === 1 ? 'file' : 'files'}, ${formatBytes(bytes)} in total; manifest SHA-256 ${result.manifest.sha256.slice(0, 12)}…`,
+    verdict: verdictSentences(result),
+    overview: overviewModel(result, hrefFor),
+    findingKinds: findingKinds(result, hrefFor),
+    levels: data.order.map((level) => ({
+      level,
+      title: data.levels[level].title,
+      meaning: data.levels[level].meaning,
+      count: result.datasets.reduce((k, d) => k + d.findings.filter((f) => f.level === level).length, 0),
     })),
-    overviewCharts: pageCharts.filter((c) => c.datasetId === null || !anchors.has(c.datasetId)),
+    // Their captions list every dataset's estimate and interval, as the overview table does: folded.
+    acrossCharts: charts.filter((c) => !isDriftChart(c) && (c.datasetId === null || !extra.datasetHref.has(c.datasetId))).map((c) => ({ ...c, foldCaption: true })),
     methodsHtml: renderMarkdown(texts.methods.markdown, 3),
     methodsPlain: texts.methods.plain,
     cautions: texts.cautions,

@@ -1,12 +1,14 @@
 /**
  * The words and tables a version folder needs from the text modules, gathered at one seam:
- * the methods paragraph and cautions (`methods.ts`), the summary table as CSV, Markdown and
- * LaTeX (`tables.ts`), and BibTeX entries for exactly the works the methods cite (`bibtex.ts`).
+ * the methods paragraph and cautions (`methods.ts`), the summary table as CSV and Markdown
+ * (`tables.ts`) and as a LaTeX table of datasets × measures (`summary-tex.ts`), and BibTeX
+ * entries for exactly the works the methods cite (`bibtex.ts`).
  */
 import type { AuditResult } from '../types.ts';
 import { bibtex } from './bibtex.ts';
 import { cautionsText, methodsText } from './methods.ts';
-import { summaryRows, toCsv, toLatex, toMarkdown } from './tables.ts';
+import { summaryTex } from './summary-tex.ts';
+import { summaryRows, toCsv, toMarkdown } from './tables.ts';
 
 export interface VersionTexts {
   /** Methods paragraphs as Markdown (rendered on the page through `renderMarkdown`) and plain text. */
@@ -28,7 +30,7 @@ export function versionTexts(result: AuditResult): VersionTexts {
     cautions: cautionsText(result).items,
     csv: toCsv(rows),
     markdownTable: toMarkdown(rows),
-    latex: toLatex(rows),
+    latex: summaryTex(result),
     bib: bibtex(methods.citations),
   };
 }

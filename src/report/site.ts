@@ -7,7 +7,8 @@
  *   <out>/<audit>/latest/index.html        renderAuditIndex  forwards to the newest version
  *   <out>/<audit>/<version>/               renderVersion     (written into a target folder the
  *        index.html drift.html compare.html                   caller renames into place)
- *        results.json summary.{csv,md,tex} references.bib methods.md figures/<chart>.svg
+ *        datasets/<id>/index.html (one page per dataset: its charts, findings, files)
+ *        results.json summary.{csv,md,tex} references.bib methods.{md,txt} figures/<chart>.svg
  *
  * Pipeline of `renderVersion`, numbered as in its body:
  *   1. prepare charts (safe inline SVG, Vega spec compiled at build time, text alternative)
@@ -27,7 +28,7 @@ import { writePages } from './eleventy.ts';
 import { uniqueSlugger } from './site-format.ts';
 import type { AuditIndexInput, SiteAuditInput } from './site-index.ts';
 import { auditIndexModel, latestModel, siteIndexModel } from './site-index.ts';
-import { reportModel } from './site-model.ts';
+import { datasetPaths, datasetSection, reportModel } from './site-model.ts';
 import { versionTexts } from './site-texts.ts';
 
 export { copyAssets } from './assets.ts';
@@ -67,6 +68,7 @@ export async function renderVersion(input: RenderVersionInput, targetDir: string
   const anchorFor = uniqueSlugger();
   const prepared = chartModels(input.charts, { compile: (spec) => compileToVega(spec, { logger: { warn() {} } }), slugger: anchorFor });
   const reportCharts = prepared.charts.filter((c) => !isDriftChart(c));
+  const datasetHref = datasetPaths(result);
   const driftCharts = prepared.charts.filter((c) => isDriftChart(c));
   const figures = prepared.charts.flatMap((c) => (c.file ? [{ file: c.file, title: c.title }] : []));
   // 2. models
@@ -82,9 +84,25 @@ export async function renderVersion(input: RenderVersionInput, targetDir: string
       title: `${result.title} — ${result.version}`,
       heading: result.title,
       nav: versionNav('report', hasDrift, hasCompare),
-      model: reportModel(result, reportCharts, texts, { hasCompare, anchorFor, figures }),
+      model: reportModel(result, reportCharts, texts, { hasCompare, figures, datasetHref }),
     },
   ];
+  for (const ds of result.datasets) {
+    const dir = datasetHref.get(ds.id) ?? '';
+    // Figure files live in the version folder, two levels up from a dataset page.
+    const charts = reportCharts.filter((c) => c.datasetId === ds.id).map((c) => ({ ...c, file: c.file ? `../../${c.file}` : null, specScript: c.specScript ? `../../${c.specScript}` : null }));
+    pages.push({
+      root: '../../../../',
+      audit: result.audit,
+      version: result.version,
+      kind: 'dataset',
+      file: `${dir}index.html`,
+      title: `${ds.id} — ${result.title} — ${result.version}`,
+      heading: ds.id,
+      nav: versionNav('report', hasDrift, hasCompare).map((n) => ({ ...n, href: `../../${n.href}`, current: false })),
+      model: { section: datasetSection(ds, `${dir}index.html`, charts), title: result.title, version: result.version },
+    });
+  }
   if (result.drift) {
     pages.push({
       ...common,

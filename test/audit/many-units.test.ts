@@ -50,7 +50,8 @@ describe.skipIf(!hasScipy)('150,000 units built end to end', () => {
     const r = build(ws, out);
     expect(r.stderr).toBe('');
     expect(r.status).toBe(0);
-    const page = readFileSync(join(out, 'many', 'v001', 'index.html'), 'utf8');
+    // The per-unit charts are on the dataset's own page.
+    const page = readFileSync(join(out, 'many', 'v001', 'datasets', 'units', 'index.html'), 'utf8');
     expect(page).toContain('Lifetime sparseness of each of');
   }, 300_000);
 

@@ -44,7 +44,7 @@ describe.skipIf(!CHROMIUM)('the built demo report in Chromium', () => {
     }
   });
 
-  for (const page of ['kc-survey/v001/index.html', 'kc-survey/v001/drift.html', 'kc-imaging/v001/index.html', 'pruned-net/v001/index.html', 'index.html']) {
+  for (const page of ['kc-survey/v001/index.html', 'kc-survey/v001/datasets/m01-rig-a/index.html', 'kc-survey/v001/drift.html', 'kc-imaging/v001/index.html', 'kc-imaging/v001/datasets/img-01/index.html', 'pruned-net/v001/index.html', 'pruned-net/v001/datasets/pruned-90/index.html', 'index.html']) {
     it(`${page}: charts drawn live, no errors, nothing requested off the machine`, async () => {
       const p = await context.newPage();
       const requests: string[] = [];
@@ -54,7 +54,8 @@ describe.skipIf(!CHROMIUM)('the built demo report in Chromium', () => {
       p.on('pageerror', (e) => errors.push(e.message));
       await p.goto(pathToFileURL(join(out, page)).href, { waitUntil: 'load' });
       const holders = await p.locator('[data-vega-spec]').count();
-      if (page !== 'index.html') expect(holders).toBeGreaterThan(0);
+      // Dataset pages and the drift page carry charts; a version page has charts only across datasets.
+      if (page.includes('/datasets/') || page.endsWith('drift.html')) expect(holders).toBeGreaterThan(0);
       await p.waitForFunction((n) => document.querySelectorAll('.chart-canvas.is-live .chart-live svg').length === n, holders, { timeout: 60_000 });
       const shot = join(tmp, `${page.replace(/[/.]/g, '-')}.png`);
       await p.screenshot({ path: shot, fullPage: false });
@@ -64,4 +65,28 @@ describe.skipIf(!CHROMIUM)('the built demo report in Chromium', () => {
       await p.close();
     }, 90_000);
   }
+
+  it('kc-survey version page: verdict and overview table in the first screen, under 6,000 px, at most 8 A4 pages in print', async () => {
+    const p = await context.newPage();
+    await p.setViewportSize({ width: 1400, height: 900 });
+    await p.goto(pathToFileURL(join(out, 'kc-survey/v001/index.html')).href, { waitUntil: 'load' });
+    const box = async (sel: string) => (await p.locator(sel).first().boundingBox())!;
+    const verdict = await box('#verdict .verdict-text');
+    const table = await box('table.overview');
+    const firstRow = await box('table.overview tbody tr:nth-child(2)');
+    // The whole verdict, and the table's head and first dataset row, above the fold (900 px).
+    expect(verdict.y + verdict.height).toBeLessThanOrEqual(900);
+    expect(table.y).toBeLessThan(900);
+    expect(firstRow.y + firstRow.height).toBeLessThanOrEqual(900);
+    const height = await p.evaluate(() => document.documentElement.scrollHeight);
+    console.log(`test/browser/demo: kc-survey version page ${height} px tall`);
+    expect(height).toBeLessThan(6000);
+    // Print as Chromium does (A4, the page's print style sheet) and count the PDF's page objects.
+    const pdf = (await p.pdf({ format: 'A4' })).toString('latin1');
+    const pages = pdf.match(/\/Type\s*\/Page(?![a-zA-Z])/g)?.length ?? 0;
+    console.log(`test/browser/demo: kc-survey version page prints to ${pages} A4 pages`);
+    expect(pages).toBeGreaterThan(0);
+    expect(pages).toBeLessThanOrEqual(8);
+    await p.close();
+  }, 90_000);
 });

@@ -44,7 +44,7 @@ describe('activity findings', () => {
     // An all-NaN unit is empty; its 200 NaN cells are counted as such.
     { name: 'an empty unit', make: (d) => { row(d, 6).fill(NaN); }, want: ['exclude nan-values 200', 'exclude empty-units 1'] },
     // A silent unit has 0 nonzero bins < min_nonzero 5, so its kurtosis is withheld too.
-    { name: 'a silent unit', make: (d) => { row(d, 1).fill(0); }, want: ['exclude silent-units 1', 'exclude kurtosis-too-few-nonzero 1'], where: ['n1'] },
+    { name: 'a silent unit', make: (d) => { row(d, 1).fill(0); }, want: ['exclude silent-units 1', 'notice kurtosis-too-few-nonzero 1'], where: ['n1'] },
     // Every cell at the max, but constant units are not judged saturated (binary-like rule).
     { name: 'a constant unit', make: (d) => { row(d, 5).fill(3); }, want: ['caution constant-units 1'], where: ['n5'] },
     { name: 'negatives, rectify', make: (d) => { d[7] = -0.5; }, opts: { negatives: 'rectify' }, want: ['caution negative-values 1'], where: ['n0'] },
@@ -52,7 +52,7 @@ describe('activity findings', () => {
     // 10 of 200 cells (5%, ≥ 5) clipped at the unit's max of 4: saturated.
     { name: 'a clipped unit', make: (d) => { const r = row(d, 3); for (let j = 0; j < 10; j++) r[j * 7] = 4; for (let j = 0; j < BINS; j++) r[j] = Math.min(r[j], 4); }, want: ['caution saturated-units 1'], where: ['n3'] },
     { name: 'a duplicated unit', make: (d) => { row(d, 7).set(row(d, 2)); }, want: ['caution duplicate-units 1'], where: ['n2 = n7'] },
-    { name: 'a unit with 3 nonzero bins', make: (d) => { const r = row(d, 4); r.fill(0); r[1] = 1; r[50] = 2; r[99] = 0.5; }, want: ['exclude kurtosis-too-few-nonzero 1'], where: ['n4'] },
+    { name: 'a unit with 3 nonzero bins', make: (d) => { const r = row(d, 4); r.fill(0); r[1] = 1; r[50] = 2; r[99] = 0.5; }, want: ['notice kurtosis-too-few-nonzero 1'], where: ['n4'] },
     { name: 'no noise estimate for events', make: (d) => { const r = row(d, 2); r.fill(0); for (let j = 0; j < 10; j++) r[j * 20] = 1; }, opts: { events: { k: 3 } }, want: ['exclude events-undefined-units 1'], where: ['n2'] },
   ];
   for (const c of cases) {

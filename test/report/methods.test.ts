@@ -14,6 +14,8 @@ function eachRecord(r: AuditResult, f: (rec: IntervalRecord) => void): void {
 describe('methodsText', () => {
   it('states the fixture’s resamples, seed, level, block lengths, negatives policy, bin width and version', () => {
     const r = activityFixture();
+    // The negatives policy is stated only where some dataset had negative values: give it one.
+    r.datasets[1]!.findings.push({ level: 'caution', code: 'negative-values', message: '4 negative cells, set to 0 (rectify).', where: ['unit 2'], count: 4 });
     const { plain, markdown } = methodsText(r);
     const rec = r.datasets[0]!.measures.population_sparseness!.intervalRecord!;
     expect(plain).toContain(`${rec.resamples} resamples`);
@@ -27,7 +29,8 @@ describe('methodsText', () => {
     expect(plain).toContain(`Lacuna ${r.tool.version}`);
     expect(plain).toContain('moving-block bootstrap');
     expect(plain).toContain('percentile intervals'); // kurtosis uses the percentile method in the fixture
-    expect(plain).toContain('silent-bins (36)'); // exclusion finding with its count
+    expect(plain).toContain('silent bins (36, in rig-a-2024-01)'); // exclusion finding in words, with its count
+    expect(plain).not.toContain('silent-bins'); // never the internal code
     expect(plain).toContain('robust standard deviations'); // events are on in the fixture
     expect(plain).toContain('window from 0 s to 30 s');
     expect(markdown).toContain('*g*₂');
@@ -46,6 +49,7 @@ describe('methodsText', () => {
       }
     });
     r.parameters.negatives = 'keep';
+    r.datasets[1]!.findings.push({ level: 'caution', code: 'negative-values', message: '4 negative cells, kept.', where: ['unit 2'], count: 4 });
     r.parameters.zero_tolerance = 0.001;
     r.parameters.bin_ms = 33;
     r.parameters.events = null;
@@ -70,7 +74,8 @@ describe('methodsText', () => {
     expect(ewma.plain).toContain('λ = 0.2');
     expect(ewma.plain).toContain('±3σ');
     expect(ewma.plain).toContain(`${r.drift!.testsRun} tests`);
-    expect(ewma.citations).toEqual(expect.arrayContaining(['roberts1959', 'holm1979', 'gilbert1987', 'sen1968']));
+    expect(ewma.citations).toEqual(expect.arrayContaining(['roberts1959', 'holm1979', 'gilbert1987', 'theil1950', 'sen1968']));
+    expect(ewma.plain).toContain('Theil–Sen slope (Theil 1950; Sen 1968)');
     r.drift!.chart = 'cusum';
     r.drift!.adjustment = 'bh';
     (r.parameters.drift as Record<string, unknown>).cusum_h = 4;
@@ -89,6 +94,9 @@ describe('methodsText', () => {
     const { markdown, plain } = methodsText(r);
     expect(plain).toContain('rig_*a*[1]');
     expect(markdown).toContain('rig\\_\\*a\\*\\[1\\]');
+    // Parentheses and pipes start no Markdown inside running text: left as they are.
+    r.datasets[0]!.id = 'rig (a|b)';
+    expect(methodsText(r).markdown).toContain('rig (a|b)');
   });
 
   it('describes a weights audit with its own settings', () => {
@@ -118,5 +126,14 @@ describe('cautionsText', () => {
     expect(w.items.some((s) => s.includes('stationary'))).toBe(false);
     expect(w.items.some((s) => s.includes('indicator'))).toBe(false);
     expect(w.items.some((s) => s.includes('human participants'))).toBe(true);
+  });
+
+  it('says nothing about a negatives policy when no dataset had negative values', () => {
+    const r = activityFixture(); // negatives: rectify, and no negative-values finding
+    expect(cautionsText(r).items.some((s) => /negative/i.test(s))).toBe(false);
+    expect(methodsText(r).plain).not.toMatch(/negative values/i);
+    r.datasets[0]!.findings.push({ level: 'caution', code: 'negative-values', message: '2 negative cells, set to 0.', where: ['unit 1'], count: 2 });
+    expect(cautionsText(r).items.some((s) => s.includes('Negative values were set to zero'))).toBe(true);
+    expect(methodsText(r).plain).toContain('Negative values were set to zero (rectified)');
   });
 });

@@ -73,8 +73,13 @@ afterAll(async () => {
 });
 
 describe('hostile strings in a result render as inert text', () => {
-  it('wrote every page (report, drift, compare, audit index, latest, site index)', () => {
-    expect(pages.map((p) => p.file.slice(tmp.length)).sort()).toEqual(
+  it('wrote every page (report, a page per dataset, drift, compare, audit index, latest, site index)', () => {
+    const files = pages.map((p) => p.file.slice(tmp.length)).sort();
+    const datasetPages = files.filter((f) => f.startsWith('/out/audit/v/datasets/'));
+    // One page per dataset, each in a folder named by a slug of the (hostile) id: letters, digits, . _ - only.
+    expect(datasetPages.length).toBe(hostile().datasets.length);
+    for (const f of datasetPages) expect(f).toMatch(/^\/out\/audit\/v\/datasets\/[A-Za-z0-9._-]+\/index\.html$/);
+    expect(files.filter((f) => !datasetPages.includes(f))).toEqual(
       ['/out/audit/index.html', '/out/audit/latest/index.html', '/out/audit/v/compare.html', '/out/audit/v/drift.html', '/out/audit/v/index.html', '/out/index.html'].sort(),
     );
   });
@@ -106,7 +111,7 @@ describe('hostile strings in a result render as inert text', () => {
   });
 
   it('inline JSON blocks hold no "<" at all, and parse back to the compiled spec', () => {
-    const report = pages.find((p) => p.file.endsWith('/v/index.html'))!.html;
+    const report = pages.filter((p) => p.file.includes('/v/datasets/')).map((p) => p.html).join('\n');
     const blocks = [...report.matchAll(/<script type="application\/json" id="[^"]+">([\s\S]*?)<\/script>/g)].map((m) => m[1]);
     expect(blocks.length).toBeGreaterThan(3);
     for (const b of blocks) {

@@ -50,14 +50,17 @@ afterAll(async () => {
 });
 
 describe('renderVersion writes every file of a version folder', () => {
-  it('pages, downloads and one SVG per chart (issue 4 list)', () => {
+  it('pages, downloads and one SVG per chart (issue 4 list), a page per dataset', () => {
     const { versionDir, result } = site.audits[0];
-    for (const f of ['index.html', 'drift.html', 'compare.html', 'results.json', 'summary.csv', 'summary.md', 'summary.tex', 'references.bib', 'methods.md']) {
+    for (const f of ['index.html', 'drift.html', 'compare.html', 'results.json', 'summary.csv', 'summary.md', 'summary.tex', 'references.bib', 'methods.md', 'methods.txt']) {
       expect(existsSync(join(versionDir, f)), f).toBe(true);
     }
-    const chartIds = buildCharts(result).map((c) => c.id);
+    for (const ds of result.datasets) expect(existsSync(join(versionDir, 'datasets', ds.id, 'index.html')), ds.id).toBe(true);
+    // The per-dataset "all measures" chart is left off the pages (the overview table holds its numbers).
+    const chartIds = buildCharts(result).map((c) => c.id).filter((id) => !id.endsWith('--measures'));
     expect(chartIds.length).toBeGreaterThan(5);
     for (const id of chartIds) expect(existsSync(join(versionDir, 'figures', `${id}.svg`)), id).toBe(true);
+    expect(existsSync(join(versionDir, 'figures', 'rig-a-2024-01--measures.svg'))).toBe(false);
     expect(JSON.parse(read(join(versionDir, 'results.json')))).toEqual(result);
   });
 
@@ -94,41 +97,50 @@ describe('renderVersion writes every file of a version folder', () => {
 });
 
 describe('the report page shows the fixture numbers with what they are', () => {
-  it('summary rows: estimate, interval, level and method, n, excluded', () => {
+  it('overview table: one row per dataset, estimate with its interval, findings per level', () => {
     const html = squash(read(join(site.audits[0].versionDir, 'index.html')));
+    const row1 = rowWith(html, '>rig-a-2024-01</a>');
     // rig-a-2024-01 population sparseness: estimate 0.4948261737… → 3 significant digits 0.495;
-    // interval [0.4712, 0.5179] → [0.471, 0.518]; level 0.95 BCa; n 5964; excluded 36 (fixture).
-    expect(rowWith(html, '>0.495<')).toContain(
-      '<th scope="row" class="measure-cell">Population sparseness</th><td class="num">0.495</td><td class="num">[0.471, 0.518]</td><td>95% BCa bootstrap</td><td class="num">5,964</td><td class="num">36</td>',
-    );
-    // Kurtosis of rig-a-2024-01: 4.4555 → 4.46 (the 4th digit 5 rounds up); [2.0412, 7.9903] → [2.04, 7.99], percentile.
-    expect(rowWith(html, '>4.46<')).toContain('<th scope="row" class="measure-cell">Kurtosis</th><td class="num">4.46</td><td class="num">[2.04, 7.99]</td><td>95% percentile bootstrap</td><td class="num">10</td><td class="num">2</td>');
-    // rig-a-2024-02 Hoyer has no interval: a dash and the fixture's note, with n 10 and 0 excluded.
-    expect(rowWith(html, '>0.551<')).toContain(
-      '<td class="num">0.551</td><td class="num">—</td><td><span class="no-interval">no interval: the bootstrap distribution was degenerate</span></td><td class="num">10</td><td class="num">0</td>',
-    );
-    // Event-based measures are labelled as such: 0.8125 is exact in binary, a tie at 3 digits, and
+    // interval [0.4712, 0.5179] → [0.471, 0.518] (fixture).
+    expect(row1).toContain('<th scope="row"><a href="datasets/rig-a-2024-01/index.html">rig-a-2024-01</a></th><td>rig A</td><td class="num">0.495<span class="ci">[0.471, 0.518]</span></td>');
+    // Kurtosis of rig-a-2024-01: 4.4555 → 4.46 (the 4th digit 5 rounds up); [2.0412, 7.9903] → [2.04, 7.99].
+    expect(row1).toContain('<td class="num">4.46<span class="ci">[2.04, 7.99]</span></td>');
+    // Fixture findings of rig-a-2024-01: 2 exclude, 1 notice; no event measures (a dash).
+    expect(row1).toContain('<td class="num">—</td><td class="findings-cell">2 exclude, 1 notice</td>');
+    const row2 = rowWith(html, '>rig-a-2024-02</a>');
+    // rig-a-2024-02 Hoyer has no interval: the estimate alone.
+    expect(row2).toContain('<td class="num">0.551</td>');
+    // Event-based measures get their own column: 0.8125 is exact in binary, a tie at 3 digits, and
     // ECMA-262 toPrecision picks the larger n on a tie → 0.813; [0.7904, 0.8336] → [0.790, 0.834].
-    expect(rowWith(html, '(event-based)')).toMatch(/Population sparseness <span class="variant">\(event-based\)<\/span><\/th><td class="num">0\.813<\/td><td class="num">\[0\.790, 0\.834\]<\/td>/);
+    expect(html).toContain('<th scope="col" class="num">Population sparseness (event-based)</th>');
+    expect(row2).toContain('<td class="num">0.813<span class="ci">[0.790, 0.834]</span></td>');
+    // 2 datasets → 2 data rows (plus one month heading row each).
+    expect(html.match(/<th scope="row"><a href="datasets\//g)?.length).toBe(2);
+    // Method and level said once per column, not per row: kurtosis intervals are percentile (fixture).
+    expect(html).toContain('<dt>Kurtosis</dt><dd>median over units of each unit’s excess kurtosis g2 across bins; interval: 95% percentile bootstrap.</dd>');
   });
 
-  it('weights audit: a measure without a sampling interval says why', () => {
-    const html = squash(read(join(site.audits[1].versionDir, 'index.html')));
+  it('dataset page: each measure in words with n and excluded, and a measure without an interval says why', () => {
+    const page = squash(read(join(site.audits[0].versionDir, 'datasets', 'rig-a-2024-01', 'index.html')));
+    // n 5964, excluded 36 (fixture) for population sparseness.
+    expect(page).toContain('<li>Population sparseness: 0.495, [0.471, 0.518] (95% BCa bootstrap, 2,000 resamples of blocks-of-bins, blocks of 12 bins (auto), seed 20240117); n = 5,964, excluded 36.');
+    const weights = squash(read(join(site.audits[1].versionDir, 'datasets', 'mlp-checkpoint-40', 'index.html')));
     // density 0.4213 → 0.421; n 3392 → 3,392 (fixture).
-    expect(rowWith(html, '>0.421<')).toContain('<th scope="row" class="measure-cell">Density</th><td class="num">0.421</td><td class="num">—</td><td><span class="no-interval">every weight was read: no sampling interval</span></td><td class="num">3,392</td>');
+    expect(weights).toContain('<li>Density: 0.421, no interval: every weight was read: no sampling interval; n = 3,392');
   });
 
-  it('findings grouped by level, with the bracketed level word, counts and places', () => {
+  it('findings grouped by kind, those that can bias a number before routine ones', () => {
     const html = squash(read(join(site.audits[0].versionDir, 'index.html')));
-    // Fixture: 2 exclude findings (rig-a-2024-01), 1 caution (rig-a-2024-02), 1 notice.
-    expect(slice(html, '<h3 id="findings-exclude-h">', '</h3>')).toBe('<h3 id="findings-exclude-h"><span class="marker marker-exclude">[exclude]</span> 2 findings</h3>');
-    expect(slice(html, '<h3 id="findings-caution-h">', '</h3>')).toBe('<h3 id="findings-caution-h"><span class="marker marker-caution">[caution]</span> 1 finding</h3>');
-    const bins = slice(html, '<code>silent-bins</code>', '</li>');
-    expect(bins).toContain('<span class="count">count 36</span>');
-    expect(bins).toContain('<code>bins 101–110</code>, <code>bins 3302–3327</code>');
-    // Levels come in the order exclude, caution, notice.
-    expect(html.indexOf('findings-exclude-h')).toBeLessThan(html.indexOf('findings-caution-h'));
-    expect(html.indexOf('findings-caution-h')).toBeLessThan(html.indexOf('findings-notice-h'));
+    // Fixture: silent-bins (exclude, 36) and silent-units (exclude, 1) in rig-a-2024-01, session-join
+    // (caution) in rig-a-2024-02, few-units (notice) in rig-a-2024-01.
+    expect(rowWith(html, '>silent bins<')).toContain('<td class="num">36</td><td><a href="datasets/rig-a-2024-01/index.html">rig-a-2024-01</a> (36)</td>');
+    const order = ['>silent bins<', '>session join<', '>few units<'].map((k) => html.indexOf(k));
+    expect(order.every((x) => x > 0)).toBe(true);
+    expect(order).toEqual([...order].sort((a, b) => a - b));
+    // No internal code on the version page; the dataset page keeps it beside the words.
+    expect(html).not.toContain('<code>silent-bins</code>');
+    const page = squash(read(join(site.audits[0].versionDir, 'datasets', 'rig-a-2024-01', 'index.html')));
+    expect(page).toContain('<code>bins 101–110</code>, <code>bins 3302–3327</code>');
   });
 
   it('header: version, tool, commit, and the provenance of every input with hash and size', () => {
@@ -149,9 +161,9 @@ describe('the report page shows the fixture numbers with what they are', () => {
 
   it('each chart is a figure with inline SVG, its Vega spec as inert JSON, and its description as caption', () => {
     const { versionDir, result } = site.audits[0];
-    const html = read(join(versionDir, 'index.html'));
-    const perDataset = buildCharts(result).filter((c) => c.datasetId !== null);
+    const perDataset = buildCharts(result).filter((c) => c.datasetId !== null && !c.id.endsWith('--measures'));
     for (const c of perDataset) {
+      const html = read(join(versionDir, 'datasets', c.datasetId!, 'index.html'));
       const at = html.indexOf(`id="fig-${c.id}"`);
       expect(at, c.id).toBeGreaterThan(0);
       const fig = html.slice(at, html.indexOf('</figure>', at));
@@ -173,12 +185,36 @@ describe('the report page shows the fixture numbers with what they are', () => {
   });
 });
 
+describe('site-wide words come from _data/', () => {
+  it('every page label of _data/labels.json heads its section on the version page', () => {
+    const html = read(join(site.audits[0].versionDir, 'index.html'));
+    const labels = JSON.parse(read('_data/labels.json')) as Record<string, string>;
+    for (const [key, text] of Object.entries(labels)) expect(html, key).toMatch(new RegExp(`<h2 [^>]*>${text}</h2>`));
+    // And the level meanings, from _data/levels.json.
+    const levels = JSON.parse(read('_data/levels.json')) as { levels: Record<string, { meaning: string }> };
+    for (const l of Object.values(levels.levels)) expect(html).toContain(l.meaning);
+  });
+});
+
+describe('the comparison page shows only what changed', () => {
+  it('a dataset whose estimates did not move gets one line, not a table of zeros', () => {
+    // fixtureComparison: rig-a-2024-01 is `same` with a delta of 0; rig-a-2024-02 changed
+    // (lifetime sparseness 0.7012 → 0.72717, +0.02597, intervals overlap).
+    const html = squash(read(join(site.audits[0].versionDir, 'compare.html')));
+    expect(html).not.toContain('<code>rig-a-2024-01</code>');
+    expect(html).toContain('<p class="unchanged">The other dataset: no estimate changed.</p>');
+    expect(rowWith(html, '>Lifetime sparseness<')).toContain('<td class="num">0.701</td><td class="num">0.727</td><td class="num">+0.0260</td>');
+    expect(rowWith(html, '>Lifetime sparseness<')).toContain('<td>intervals overlap</td>');
+    expect(html).toContain('<code>data/2024-02/session_2.csv</code>');
+  });
+});
+
 describe('every page links only to files that exist, and loads nothing from the network', () => {
   it('local href/src targets resolve; no http(s) src; assets linked relatively', () => {
     const pages = walk(site.outDir).filter((p) => p.endsWith('.html'));
-    // site index, 2 × (audit index + latest/), v1-rig-a: report, drift, compare + previous version's
-    // report and drift; mlp-pruning: report
-    expect(pages.length).toBe(11);
+    // site index, 2 × (audit index + latest/), v1-rig-a: report, drift, compare, 2 dataset pages +
+    // previous version's report, drift and 2 dataset pages; mlp-pruning: report and 1 dataset page
+    expect(pages.length).toBe(16);
     for (const page of pages) {
       const html = read(page);
       for (const m of html.matchAll(/\s(href|src)="([^"]*)"/g)) {
