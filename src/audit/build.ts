@@ -233,16 +233,15 @@ async function buildWithPool(
     const files = d.relFiles.map((r) => provenance.get(r)!);
     return { workspace, manifest: m, datasetIndex: i, files, key: keyFor(d, m, files), bytes: files.reduce((s, f) => s + f.bytes, 0) };
   });
-  const mine = jobs; // a shard's share only (above)
   const results = new Map<string, DatasetResult>();
   let split = 0;
   const todo: typeof jobs = [];
-  for (const j of mine) {
+  for (const j of jobs) {
     const hit = readCachedDataset(workspace, j.key, notice);
     if (hit) results.set(j.key, hit);
     else todo.push(j);
   }
-  const cached = mine.length - todo.length;
+  const cached = jobs.length - todo.length;
   if (todo.length) {
     const step = progress.step(`computing ${todo.length} dataset${todo.length === 1 ? '' : 's'}`, todo.reduce((s, j) => s + j.bytes, 0), 'bytes');
     const tasks = await planTasks(todo, pool.lanes, o.splitMinBytes ?? SPLIT_MIN_BYTES);
@@ -266,7 +265,7 @@ async function buildWithPool(
     }
     step.done(`${cached} from cache`);
   } else {
-    progress.info(`all ${mine.length} dataset results taken from the cache`);
+    progress.info(`all ${jobs.length} dataset results taken from the cache`);
   }
   await pool.close(); // free the workers' memory before rendering
   lap('compute');
