@@ -4,6 +4,7 @@
 import type { MeasureName, MeasureResult } from '../types.ts';
 import { DIGITS, formatLevel, formatNumber } from '../format/number.ts';
 import { themeConfig, CHART_HEIGHT, CHART_WIDTH, SUBTITLE_CHARS, TITLE_CHARS } from './theme.ts';
+import { pushAll } from '../util/arrays.ts';
 
 /** Significant digits used in chart descriptions and labels (the shared policy's). */
 export const DESCRIPTION_DIGITS = DIGITS;
@@ -91,7 +92,7 @@ export function titleLines(title: string): string | string[] {
   if (title.length <= TITLE_CHARS) return title;
   const [head, ...rest] = title.split(' — ');
   const lines = wrapLines(head!, TITLE_CHARS);
-  for (const part of rest) lines.push(...wrapLines(`— ${part}`, TITLE_CHARS));
+  for (const part of rest) pushAll(lines, wrapLines(`— ${part}`, TITLE_CHARS));
   return lines;
 }
 
