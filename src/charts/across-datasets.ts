@@ -134,7 +134,8 @@ export function acrossDatasetsChart(datasets: DatasetResult[], measure: string, 
   const labelPx = Math.min(LABEL_LIMIT, longest);
   const plotWidth = Math.max(160, Math.min(CHART_WIDTH, SVG_WIDTH - 16 - labelPx - 12));
   const y = { field: 'row', type: 'nominal', title: null, sort: order, axis: { labelLimit: LABEL_LIMIT, ticks: false } };
-  const x = { type: 'quantitative', title: label, scale: { domain, nice: false, zero: false } };
+  // Five ticks at most: a narrow plot with more runs their labels together ("0.860.870.88").
+  const x = { type: 'quantitative', title: label, scale: { domain, nice: false, zero: false }, axis: { tickCount: 5, labelOverlap: 'greedy' } };
   const perRow = maxPerRow(rows);
   const yOffset = perRow > 1 ? { yOffset: { field: 'slot', type: 'ordinal', scale: { paddingOuter: 0.5 } } } : {};
   const data = { data: { values: rows } };
