@@ -35,6 +35,7 @@ import { LABEL_TABLES, mergeLabels, readLabelTable, type LabelTable } from './so
 import { sampleBinner, type SampleBinner } from './sample-bins.ts';
 import { checkActivityShape } from './memory-budget.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
+import { spikeCountsFile } from './spike-counts.ts';
 import { stat } from 'node:fs/promises';
 
 const CHUNK = 1 << 20;
@@ -284,22 +285,7 @@ export async function openSorterFolder(files: string[], relFiles: string[], sett
         if (u !== undefined) spikeBins[fill[u]++] = binner.binOf(times[j]);
       }
     });
-    const units = unitIds.length;
-    return {
-      path: files[0], units, bins, binMs, findings, hasMissing: false, unitLabels: unitIds.map(String),
-      precision: spikeBins.length < 2 ** 24 ? 'f32' : 'f64', reusableAfterClose: true, contiguous: true,
-      async readUnits(unitStart, count, out, outCols, colOffset) {
-        if (unitStart < 0 || count < 0 || unitStart + count > units || colOffset + bins > outCols) {
-          throw new RangeError(`readUnits(${unitStart}, ${count}) outside ${units} units or block of ${outCols} columns`);
-        }
-        for (let u = 0; u < count; u++) {
-          const o = u * outCols + colOffset;
-          out.fill(0, o, o + bins);
-          for (let i = start[unitStart + u]; i < start[unitStart + u + 1]; i++) out[o + spikeBins[i]] += 1;
-        }
-      },
-      async close() {},
-    };
+    return spikeCountsFile({ path: files[0], bins, binMs, findings, unitLabels: unitIds.map(String), start, spikeBins });
   } finally {
     await closeArrays(h);
   }

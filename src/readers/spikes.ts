@@ -23,6 +23,7 @@ import { textLines } from './text-lines.ts';
 import { durationBins, durationComment } from './spikes-inspect.ts';
 import { checkActivityShape, maxBinsFor } from './memory-budget.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
+import { spikeCountsFile } from './spike-counts.ts';
 import { binOf as binOfQuotient, EDGE_TOLERANCE } from './nwb-time.ts';
 
 const MAX_BINS = 2 ** 31 - 1;
@@ -151,19 +152,5 @@ export async function openSpikeTable(path: string, relPath: string, delim: strin
   }
   const units = labels.length;
   checkActivityShape({ units, bins, binMs, file: relPath, where: `row ${maxBinRow}` });
-  return {
-    path, units, bins, binMs, findings, hasMissing: false, unitLabels: labels,
-    precision: n < 2 ** 24 ? 'f32' : 'f64', reusableAfterClose: true,
-    async readUnits(unitStart, count, out, outCols, colOffset) {
-      if (unitStart < 0 || count < 0 || unitStart + count > units || colOffset + bins > outCols) {
-        throw new RangeError(`readUnits(${unitStart}, ${count}) outside ${units} units or block of ${outCols} columns`);
-      }
-      for (let u = 0; u < count; u++) {
-        const o = u * outCols + colOffset;
-        out.fill(0, o, o + bins);
-        for (let i = start[unitStart + u]; i < start[unitStart + u + 1]; i++) out[o + sortedBins[i]] += 1;
-      }
-    },
-    async close() {},
-  };
+  return spikeCountsFile({ path, bins, binMs, findings, unitLabels: labels, start, spikeBins: sortedBins });
 }
