@@ -35,6 +35,11 @@ export function durationComment(text: string, relPath: string, line: number): nu
   return d;
 }
 
+/** The error for a header row without 'unit' and 'time' columns (each cell quoted, cut at 80 characters); check and build share it. */
+export function badHeader(cells: string[], relPath: string, line: number) {
+  return inputError(relPath, `row ${line}`, `header must name a 'unit' and a 'time' column; found ${cells.slice(0, 10).map((c) => JSON.stringify(c.length > 80 ? `${c.slice(0, 80)}…` : c)).join(', ')}`);
+}
+
 export async function inspectSpikeHeader(path: string, relPath: string, delim: string, binMs?: number): Promise<{ columns: string[]; durationS: number | null }> {
   let durationS: number | null = null;
   for await (const [line, text] of textLines(path, relPath, 1 << 20)) {
@@ -48,7 +53,7 @@ export async function inspectSpikeHeader(path: string, relPath: string, delim: s
     const columns = splitCells(text, delim);
     const lower = columns.map((c) => c.toLowerCase());
     if (!lower.includes('unit') || !lower.includes('time')) {
-      throw inputError(relPath, `row ${line}`, `header must name a 'unit' and a 'time' column; found ${columns.slice(0, 10).map((c) => JSON.stringify(c.length > 80 ? `${c.slice(0, 80)}…` : c)).join(', ')}`);
+      throw badHeader(columns, relPath, line);
     }
     return { columns, durationS };
   }

@@ -20,7 +20,7 @@ import type { Finding } from '../types.ts';
 import { inputError } from './byte-source.ts';
 import { cellNumber, splitCells } from './table-text.ts';
 import { textLines } from './text-lines.ts';
-import { durationBins, durationComment } from './spikes-inspect.ts';
+import { badHeader, durationBins, durationComment } from './spikes-inspect.ts';
 import { checkActivityShape, maxBinsFor } from './memory-budget.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
 import { spikeCountsFile } from './spike-counts.ts';
@@ -87,7 +87,7 @@ export async function openSpikeTable(path: string, relPath: string, delim: strin
       unitCol = lower.indexOf('unit');
       timeCol = lower.indexOf('time');
       if (unitCol < 0 || timeCol < 0) {
-        throw inputError(relPath, `row ${line}`, `header must name a 'unit' and a 'time' column; found ${cells.slice(0, 10).map((c) => JSON.stringify(c)).join(', ')}`);
+        throw badHeader(cells, relPath, line);
       }
       width = cells.length;
       continue;

@@ -7,6 +7,7 @@ import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { openDataset } from '../../src/readers/index.ts';
 import { naturalCompare } from '../../src/readers/spikes.ts';
+import { inspectDataset } from '../../src/readers/index.ts';
 import { dataset, readAll, tempDir, errorOf } from './helpers.ts';
 
 const tmp = tempDir();
@@ -18,6 +19,17 @@ function file(name: string, text: string): string {
 const openAt = (f: string, binMs: number) => openDataset(dataset(tmp.dir, [f], 'spikes'), { kind: 'activity', binMs, workspaceRoot: tmp.dir });
 
 describe('spike-time tables', () => {
+  it('a header without unit and time quotes at most 80 characters of a cell, and check says the same as build', async () => {
+    // A 100,000-character first cell (a file with no newline, say): the message must stay short.
+    const f = file('wide-header.csv', `${'x'.repeat(100_000)},other\n1,2\n`);
+    const built = await errorOf(() => openAt(f, 10));
+    expect(built.message).toContain("header must name a 'unit' and a 'time' column");
+    expect(built.message.length).toBeLessThan(400);
+    const { problems } = await inspectDataset(dataset(tmp.dir, [f], 'spikes'), { kind: 'activity', binMs: 10 });
+    expect(problems.map((p) => p.message)).toEqual([built.message]);
+  });
+
+
   it('bins a hand-worked case', async () => {
     // bin_ms = 100 → w = 0.1 s. Spikes (unit, t):
     //   u10: 0.05 → bin 0; 0.3 → ⌊3.0⌋ = 3 (decimal 0.3 must not fall into bin 2); 0.31 → 3
