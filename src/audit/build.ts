@@ -21,7 +21,7 @@ import { join } from 'node:path';
 import { findManifests, loadManifest } from '../manifest/index.ts';
 import type { ResolvedManifest } from '../manifest/types.ts';
 import { InputError, InputErrors } from '../errors.ts';
-import type { AuditResult, DatasetResult, FileProvenance, MeasureResult } from '../types.ts';
+import type { AuditResult, DatasetResult, MeasureResult } from '../types.ts';
 import { TOOL_VERSION } from '../version.ts';
 import type { Progress } from '../cli/progress.ts';
 import { planHashes, readCachedDataset, recordHashes } from './cache.ts';

@@ -66,7 +66,7 @@ export async function openActivityFile(path: string, relPath: string, ds: Resolv
     case 'npz': return openNpzActivity(path, relPath, ds.layout, ds.member);
     case 'csv':
     case 'tsv': return inMemory(await openCsvActivity(path, relPath, ds.layout, delimiterFor(ds.format, relPath)));
-    case 'spikes': return inMemory(await openSpikeTable(path, relPath, delimiterFor(ds.format, relPath), ctx.binMs));
+    case 'spikes': return openSpikeTable(path, relPath, delimiterFor(ds.format, relPath), ctx.binMs); // contiguous already (spike-counts.ts)
     case 'nwb': {
       const { openNwbActivity } = await import('./nwb.ts');
       return openNwbActivity(path, { binMs: ctx.binMs, series: ds.series, relPath, recordingEndS: ds.recording_end_s ?? null });

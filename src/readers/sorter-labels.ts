@@ -37,9 +37,9 @@ export async function readLabelTable(path: string, relPath: string): Promise<Lab
     const cells = text.split('\t').map((c) => c.trim());
     if (idCol < 0) {
       idCol = cells.indexOf('cluster_id');
-      const others = cells.map((c, i) => i).filter((i) => i !== idCol);
+      const others = cells.map((_, i) => i).filter((i) => i !== idCol);
       if (idCol < 0 || others.length !== 1) {
-        throw inputError(relPath, `row ${line}`, `header must name 'cluster_id' and one label column, tab-separated; found ${cells.slice(0, 6).map((c) => JSON.stringify(c)).join(', ')}`);
+        throw inputError(relPath, `row ${line}`, `header must name 'cluster_id' and one label column, tab-separated; found ${cells.slice(0, 6).map((c) => JSON.stringify(c.length > 80 ? `${c.slice(0, 80)}…` : c)).join(', ')}`);
       }
       labelCol = others[0];
       column = cells[labelCol];
