@@ -18,5 +18,5 @@ const progress = {
   },
 };
 const s = await module.buildWorkspace({ workspace, out, workers: 'auto', progress });
-process.stdout.write(`${JSON.stringify({ timings: s.timings, computed: s.computed, startupMs, computeRssKiB, compiled })}\n`);
+process.stdout.write(`${JSON.stringify({ timings: s.timings, computed: s.computed, hashed: s.hashed, startupMs, computeRssKiB, compiled })}\n`);
 process.exit(0);

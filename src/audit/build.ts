@@ -24,8 +24,8 @@ import { InputError, InputErrors } from '../errors.ts';
 import type { AuditResult, DatasetResult, MeasureResult } from '../types.ts';
 import { TOOL_VERSION } from '../version.ts';
 import type { Progress } from '../cli/progress.ts';
-import { planHashes, readCachedDataset, recordHashes } from './cache.ts';
-import { datasetParameters, finishSplit, keyFor, unitsOf, type DatasetJob } from './dataset.ts';
+import { planHashes, readCachedDataset, recordHashes, type FileToHash } from './cache.ts';
+import { datasetParameters, finishSplit, keyFor, unitsOf, withHashes, type DatasetJob, type DatasetOutcome, type HashedInPass, type PassPart } from './dataset.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { createPool, type Pool, type Task } from './pool.ts';
 import { acquireWorkspaceLock } from './lock.ts';
@@ -62,6 +62,11 @@ export interface BuildSummary {
   /** Datasets that were split by unit ranges across worker threads. */
   split: number;
   rendered: string[];
+  /**
+   * Input bytes hashed: on their own before the compute (`first`), or in the pass that measured
+   * them (`inPass`), of which `reread` the taps had to read again themselves (read-tap.ts).
+   */
+  hashed: { first: number; inPass: number; reread: number };
   /** Wall time of each stage in ms (the benchmark prints these). */
   timings: { manifests: number; hash: number; compute: number; assemble: number; render: number };
 }
@@ -90,20 +95,53 @@ function workerCount(text: string | undefined, jobs: number): number {
 export const SPLIT_MIN_BYTES = 128 << 20;
 export const SPLIT_MIN_LANES = 2;
 
-async function planTasks(todo: (DatasetJob & { bytes: number })[], workers: number, minBytes: number): Promise<Task[]> {
-  const tasks: Task[] = [];
+/**
+ * The lane that hashes a split dataset's files in its reads takes this share of the units: after
+ * its range it reads the rest of the file for the hash alone, so an even split would make it the
+ * last lane to finish. (Measured on 2 cores, docs/benchmark.md.)
+ */
+export const HASHING_LANE_SHARE = 0.5;
+
+/**
+ * The files to hash in the pass that measures them (read-tap.ts): each fresh file (new to the
+ * hash index, or resized: `FileToHash.fresh`) together with the other unhashed files of its
+ * dataset, when none of them is read by another dataset of this build. Such a dataset misses the
+ * cache whatever the hashes turn out to be, so one read serves both. Every other file is hashed
+ * first: a file of unchanged size may have unchanged bytes, and its dataset then comes from the
+ * cache without being measured; a file two datasets read is hashed once, not by both.
+ */
+export function filesHashedInPass(datasets: string[][], pending: Map<string, FileToHash>): Set<string> {
+  const uses = new Map<string, number>();
+  for (const rels of datasets) for (const r of rels) uses.set(r, (uses.get(r) ?? 0) + 1);
+  const out = new Set<string>();
+  for (const rels of datasets) {
+    const mine = rels.filter((r) => pending.has(r));
+    if (mine.some((r) => pending.get(r)!.fresh) && mine.every((r) => uses.get(r) === 1)) for (const r of mine) out.add(r);
+  }
+  return out;
+}
+
+/** Tasks for the datasets to compute, each with the index (into `todo`) of the dataset it serves. */
+async function planTasks(todo: (DatasetJob & { bytes: number })[], workers: number, minBytes: number): Promise<{ task: Task; owner: number }[]> {
+  const tasks: { task: Task; owner: number }[] = [];
   // Measured on 2 cores (381 MiB, docs/benchmark.md): two lanes over unit ranges, one range
   // each, took 0.9–1.1 s against 1.1–1.2 s for one lane; more, smaller ranges were slower
   // (each range opens the file and allocates a full state).
   const split = workers >= SPLIT_MIN_LANES && todo.length < workers;
-  for (const job of todo) {
+  for (let owner = 0; owner < todo.length; owner++) {
+    const job = todo[owner];
     const units = split && job.manifest.kind === 'activity' && job.bytes >= minBytes ? await unitsOf(job) : null;
     if (units === null || units < 2 * workers) {
-      tasks.push({ kind: 'dataset', job });
+      tasks.push({ task: { kind: 'dataset', job }, owner });
       continue;
     }
+    // Range boundaries: the first range (whose lane hashes, when the files need it) takes
+    // HASHING_LANE_SHARE of the units, the others share the rest evenly.
+    const first = job.hashInPass ? Math.max(1, Math.round(units * HASHING_LANE_SHARE)) : Math.floor(units / workers);
+    const edge = (w: number) => (w === 0 ? 0 : first + Math.floor(((w - 1) * (units - first)) / (workers - 1)));
     for (let w = 0; w < workers; w++) {
-      tasks.push({ kind: 'pass', job, range: { unitStart: Math.floor((w * units) / workers), unitEnd: Math.floor(((w + 1) * units) / workers) } });
+      const range = { unitStart: edge(w), unitEnd: w === workers - 1 ? units : edge(w + 1) };
+      tasks.push({ task: { kind: 'pass', job: w === 0 ? job : { ...job, hashInPass: undefined }, range }, owner });
     }
   }
   return tasks;
@@ -203,13 +241,9 @@ async function buildWithPool(
 ): Promise<BuildSummary> {
   const { workspace, progress } = o;
 
-  // 2. Inputs: the SHA-256 of every file whose size, mtime or inode changed since it was last
-  // hashed, on the pool's lanes (one file a task). A build that reads new inputs almost always
-  // renders a new version, so while worker threads hash, this thread loads the render modules
-  // (Eleventy, vega: about 0.6 s) instead of waiting for them at the end, and joins the hashing
-  // when done. Shards never render.
-  // A shard hashes and computes only its own datasets (dataset number modulo N), so N shards read
-  // each input once between them rather than each hashing the whole workspace.
+  // 2. Inputs: the SHA-256 of every file whose size, mtime, ctime or inode changed since it was
+  // last hashed. A shard hashes and computes only its own datasets (dataset number modulo N), so
+  // N shards read each input once between them rather than each hashing the whole workspace.
   let count = 0;
   const chosen = manifests
     .flatMap((m) => m.datasets.map((d, i) => ({ m, d, i, n: count++ })))
@@ -217,51 +251,77 @@ async function buildWithPool(
   const allFiles = chosen.flatMap(({ d }) => d.files.map((abs, i) => ({ abs, rel: d.relFiles[i] })));
   const notice = (file: string, reason: string) => progress.info(`notice: cache entry ${file} refused, ${reason}; computing it again`);
   const { known: provenance, toHash } = planHashes(workspace, allFiles, { rehash: o.rehash, onReject: notice });
+  const pending = new Map(toHash.map((f) => [f.rel, f]));
+  const inPass = filesHashedInPass(chosen.map(({ d }) => d.relFiles), pending);
+  const hashFirst = toHash.filter((f) => !inPass.has(f.rel));
+  const hashed = { first: hashFirst.reduce((s, f) => s + f.size, 0), inPass: 0, reread: 0 };
+
+  // A build that reads new inputs almost always renders a new version, so while the worker
+  // threads hash (or measure) them, this thread loads the render modules (Eleventy, vega: about
+  // 0.6 s) instead of waiting for them at the end, and joins the lanes when done. Shards never
+  // render.
   const preload = !shard && toHash.length > 0 && pool.lanes >= 2 ? loadRenderModules() : null;
   preload?.catch(() => {}); // a failure to load is reported when the render awaits the modules
-  if (toHash.length) {
-    const hashStep = progress.step(`hashing ${toHash.length} input file${toHash.length === 1 ? '' : 's'}`, toHash.reduce((s, f) => s + f.size, 0), 'bytes');
-    const shas = (await pool.run(toHash.map((f) => ({ kind: 'hash' as const, path: f.abs })), (n) => hashStep.advance(n), { mainLaneAfter: preload ?? undefined })) as string[];
-    recordHashes(workspace, toHash.map((file, i) => ({ file, sha256: shas[i] })));
-    toHash.forEach((f, i) => provenance.set(f.rel, { path: f.rel, sha256: shas[i], bytes: f.size }));
-    hashStep.done(`${provenance.size - toHash.length} unchanged`);
+  const record = (hashed: { file: FileToHash; sha256: string }[]) => {
+    recordHashes(workspace, hashed, { fragment: !!shard });
+    for (const { file, sha256 } of hashed) provenance.set(file.rel, { path: file.rel, sha256, bytes: file.size });
+  };
+  // Files hashed on their own first: unchanged-size files (their dataset may still be cached)
+  // and files that more than one dataset reads.
+  if (hashFirst.length) {
+    const hashStep = progress.step(`hashing ${hashFirst.length} input file${hashFirst.length === 1 ? '' : 's'}`, hashFirst.reduce((s, f) => s + f.size, 0), 'bytes');
+    const shas = (await pool.run(hashFirst.map((f) => ({ kind: 'hash' as const, path: f.abs })), (n) => hashStep.advance(n), { mainLaneAfter: preload ?? undefined })) as string[];
+    record(hashFirst.map((file, i) => ({ file, sha256: shas[i] })));
+    hashStep.done(`${provenance.size - hashFirst.length} unchanged${inPass.size ? `, ${inPass.size} new to hash while measuring` : ''}`);
+  } else if (!toHash.length) {
+    record([]); // folds what shards left in hashes.d/ into the index
   }
   lap('hash');
 
-  // 3. Compute.
-  const jobs: (DatasetJob & { key: string; bytes: number })[] = chosen.map(({ m, d, i }) => {
-    const files = d.relFiles.map((r) => provenance.get(r)!);
-    return { workspace, manifest: m, datasetIndex: i, files, key: keyFor(d, m, files), bytes: files.reduce((s, f) => s + f.bytes, 0) };
+  // 3. Compute. A dataset with files hashed in the pass has no key yet (its key holds their
+  // hashes) and misses the cache by construction; the others are looked up.
+  const jobs: (DatasetJob & { key: string | null; bytes: number })[] = chosen.map(({ m, d, i }) => {
+    const files = d.relFiles.map((r) => provenance.get(r) ?? { path: r, sha256: '', bytes: pending.get(r)!.size });
+    const hashInPass = d.relFiles.flatMap((r, k) => (inPass.has(r) ? [k] : []));
+    const key = hashInPass.length ? null : keyFor(d, m, files);
+    return { workspace, manifest: m, datasetIndex: i, files, hashInPass: hashInPass.length ? hashInPass : undefined, key, bytes: files.reduce((s, f) => s + f.bytes, 0) };
   });
-  const results = new Map<string, DatasetResult>();
-  let split = 0;
-  const todo: typeof jobs = [];
-  for (const j of jobs) {
-    const hit = readCachedDataset(workspace, j.key, notice);
-    if (hit) results.set(j.key, hit);
-    else todo.push(j);
-  }
+  const results: (DatasetResult | undefined)[] = jobs.map((j) => (j.key ? (readCachedDataset(workspace, j.key, notice) ?? undefined) : undefined));
+  const todoIndex = jobs.flatMap((_, k) => (results[k] ? [] : [k]));
+  const todo = todoIndex.map((k) => jobs[k]);
   const cached = jobs.length - todo.length;
+  let split = 0;
+  const hashedInPass: HashedInPass[] = [];
   if (todo.length) {
     const step = progress.step(`computing ${todo.length} dataset${todo.length === 1 ? '' : 's'}`, todo.reduce((s, j) => s + j.bytes, 0), 'bytes');
     const tasks = await planTasks(todo, pool.lanes, o.splitMinBytes ?? SPLIT_MIN_BYTES);
-    const out = await pool.run(tasks, (n) => step.advance(n));
-    const parts = new Map<(typeof todo)[number], ActivityPassState[]>();
+    const out = await pool.run(tasks.map((t) => t.task), (n) => step.advance(n), { mainLaneAfter: preload ?? undefined });
+    const parts = new Map<number, { states: ActivityPassState[]; hashed: HashedInPass[] }>();
     for (let i = 0; i < tasks.length; i++) {
-      const t = tasks[i];
-      if (t.kind === 'dataset') {
-        const r = out[i] as DatasetResult;
-        results.set(r.cacheKey, r);
-      } else if (t.kind === 'pass') {
-        const j = t.job as (typeof todo)[number];
-        parts.set(j, [...(parts.get(j) ?? []), out[i] as ActivityPassState]);
+      const { task, owner } = tasks[i];
+      if (task.kind === 'dataset') {
+        const { result, hashed } = out[i] as DatasetOutcome;
+        results[todoIndex[owner]] = result;
+        pushAll(hashedInPass, hashed);
+      } else if (task.kind === 'pass') {
+        const part = out[i] as PassPart;
+        const p = parts.get(owner) ?? { states: [], hashed: [] };
+        p.states.push(part.state);
+        pushAll(p.hashed, part.hashed);
+        parts.set(owner, p);
       }
     }
     split = parts.size;
-    for (const [j, states] of parts) {
+    for (const [owner, { states, hashed }] of parts) {
+      pushAll(hashedInPass, hashed);
       // The measures' intervals of the merged dataset are spread over the lanes too.
-      const r = await finishSplit(j, states, async (jobs) => (await pool.run(jobs.map((job) => ({ kind: 'summarise' as const, job })), () => {})) as MeasureResult[]);
-      results.set(r.cacheKey, r);
+      const job = withHashes(todo[owner], hashed);
+      results[todoIndex[owner]] = await finishSplit(job, states, async (jobs) => (await pool.run(jobs.map((job) => ({ kind: 'summarise' as const, job })), () => {})) as MeasureResult[]);
+    }
+    record(hashedInPass.map((h) => ({ file: pending.get(h.path)!, sha256: h.sha256 })));
+    for (const h of hashedInPass) {
+      hashed.inPass += h.bytes;
+      hashed.reread += h.reread;
     }
     step.done(`${cached} from cache`);
   } else {
@@ -271,15 +331,15 @@ async function buildWithPool(
   lap('compute');
   if (shard) {
     progress.info(`shard ${shard.index}/${shard.count}: ${todo.length} computed, ${cached} already cached; run a plain \`lacuna build\` to render`);
-    return { audits: [], computed: todo.length, cached, split, rendered: [], timings };
+    return { audits: [], computed: todo.length, cached, split, rendered: [], hashed, timings };
   }
 
   // 4–5. Assemble and version.
-  const summary: BuildSummary = { audits: [], computed: todo.length, cached, split, rendered: [], timings };
+  const summary: BuildSummary = { audits: [], computed: todo.length, cached, split, rendered: [], hashed, timings };
   const git = workspaceState(workspace);
   const sourceCommit = toolSourceCommit();
   for (const m of manifests) {
-    const datasets = jobs.filter((j) => j.manifest === m).map((j) => results.get(j.key)!);
+    const datasets = jobs.flatMap((j, k) => (j.manifest === m ? [results[k]!] : []));
     const inputs = datasets.flatMap((d) => d.files);
     const parameters = parametersOf(m);
     const hash = inputsHash({ manifestSha256: m.sha256, inputs, parameters, toolVersion: TOOL_VERSION });

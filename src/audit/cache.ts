@@ -21,7 +21,7 @@
  * is a shortcut, the record of a version is the thing to trust.
  */
 import { createHash } from 'node:crypto';
-import { existsSync, mkdirSync, readFileSync, renameSync, statSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { open } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { DatasetResult, FileProvenance } from '../types.ts';
@@ -93,6 +93,14 @@ export interface FileToHash {
   mtimeMs: number;
   ctimeMs: number;
   ino: number;
+  /**
+   * Its content is certainly not what was hashed under this path before: the index has no
+   * (valid) entry for the path, or one of another size. Every dataset holding it misses the
+   * dataset cache, whose keys hold each file's path and hash, so the build may hash it in the
+   * pass that measures it. False under `rehash`, and for a file whose size is unchanged (a
+   * `touch`, a copy that kept the bytes): hashing first may still find its dataset cached.
+   */
+  fresh: boolean;
 }
 
 function hashEntry(rel: string, s: HashStat): HashEntry {
@@ -111,7 +119,7 @@ export function planHashes(
   options: { rehash?: boolean; onReject?: OnReject } = {},
 ): { known: Map<string, FileProvenance>; toHash: FileToHash[] } {
   const store = join(cacheDir(workspace), 'hashes.json');
-  const index = options.rehash ? {} : (readJson<Record<string, HashEntry>>(store) ?? {});
+  const index = options.rehash ? {} : readHashIndex(workspace).entries;
   const known = new Map<string, FileProvenance>();
   const toHash: FileToHash[] = [];
   const planned = new Set<string>();
@@ -119,26 +127,66 @@ export function planHashes(
     if (known.has(f.rel) || planned.has(f.rel)) continue;
     const st = statSync(f.abs);
     let k: HashEntry | undefined = Object.hasOwn(index, f.rel) ? index[f.rel] : undefined;
-    if (k && (typeof k !== 'object' || k.digest !== hashEntry(f.rel, k).digest)) {
+    let rejected = false;
+    if (k && !validEntry(f.rel, k)) {
       options.onReject?.(store, `the entry of ${f.rel} does not match its digest`);
       k = undefined;
+      rejected = true;
     }
     if (k && k.size === st.size && k.mtimeMs === st.mtimeMs && k.ctimeMs === st.ctimeMs && k.ino === st.ino) known.set(f.rel, { path: f.rel, sha256: k.sha256, bytes: st.size });
     else {
-      toHash.push({ abs: f.abs, rel: f.rel, size: st.size, mtimeMs: st.mtimeMs, ctimeMs: st.ctimeMs, ino: st.ino });
+      const fresh = !options.rehash && !rejected && (!k || k.size !== st.size);
+      toHash.push({ abs: f.abs, rel: f.rel, size: st.size, mtimeMs: st.mtimeMs, ctimeMs: st.ctimeMs, ino: st.ino, fresh });
       planned.add(f.rel);
     }
   }
   return { known, toHash };
 }
 
-/** Record freshly computed hashes in `hashes.json` (merged with what is there now; atomic). */
-export function recordHashes(workspace: string, hashed: { file: FileToHash; sha256: string }[]): void {
-  if (!hashed.length) return;
-  const store = join(cacheDir(workspace), 'hashes.json');
-  const merged = readJson<Record<string, HashEntry>>(store) ?? {};
-  for (const { file, sha256 } of hashed) merged[file.rel] = hashEntry(file.rel, { ...file, sha256 });
-  atomicWriteJson(store, merged);
+function validEntry(rel: string, k: unknown): k is HashEntry {
+  return !!k && typeof k === 'object' && (k as HashEntry).digest === hashEntry(rel, k as HashEntry).digest;
+}
+
+/**
+ * Shards of a cluster build run at the same time without the workspace lock, so each writes the
+ * hashes it learnt to a file of its own under `hashes.d/` (a read-merge-write of one shared
+ * `hashes.json` would lose another shard's entries, and a lost entry now costs a dataset's
+ * computation, not only a read: see `fresh`). Readers take `hashes.json`, then every fragment
+ * over it; a plain build, which holds the lock, folds the fragments it read into `hashes.json`
+ * and removes them.
+ */
+function fragmentDir(workspace: string): string {
+  return join(cacheDir(workspace), 'hashes.d');
+}
+
+function readHashIndex(workspace: string): { entries: Record<string, HashEntry>; fragments: string[] } {
+  const entries: Record<string, HashEntry> = Object.assign(Object.create(null), readJson<Record<string, HashEntry>>(join(cacheDir(workspace), 'hashes.json')) ?? {});
+  const dir = fragmentDir(workspace);
+  const fragments = existsSync(dir) ? readdirSync(dir).filter((n) => n.endsWith('.json')).sort().map((n) => join(dir, n)) : [];
+  for (const file of fragments) {
+    const part = readJson<Record<string, HashEntry>>(file);
+    if (!part || typeof part !== 'object') continue;
+    for (const [rel, e] of Object.entries(part)) if (validEntry(rel, e)) entries[rel] = e;
+  }
+  return { entries, fragments };
+}
+
+/**
+ * Record freshly computed hashes: merged into `hashes.json` (atomic), or, for a shard
+ * (`fragment`), into a new file of its own under `hashes.d/`.
+ */
+export function recordHashes(workspace: string, hashed: { file: FileToHash; sha256: string }[], options: { fragment?: boolean } = {}): void {
+  // With nothing new, a plain build still folds what shards left, so fragments do not pile up.
+  if (!hashed.length && (options.fragment || !existsSync(fragmentDir(workspace)) || !readdirSync(fragmentDir(workspace)).length)) return;
+  const fresh: Record<string, HashEntry> = {};
+  for (const { file, sha256 } of hashed) fresh[file.rel] = hashEntry(file.rel, { ...file, sha256 });
+  if (options.fragment) {
+    atomicWriteJson(join(fragmentDir(workspace), `${process.pid}-${Date.now()}-${Math.random().toString(36).slice(2)}.json`), fresh);
+    return;
+  }
+  const { entries, fragments } = readHashIndex(workspace);
+  atomicWriteJson(join(cacheDir(workspace), 'hashes.json'), Object.assign(entries, fresh));
+  for (const f of fragments) rmSync(f, { force: true });
 }
 
 export function datasetCacheKey(parts: { files: FileProvenance[]; entry: unknown; parameters: unknown; toolVersion: string }): string {

@@ -16,6 +16,7 @@ import { activityResult, computeActivity, runActivityPass, sourceMeta } from './
 import { computeWeights } from './weights.ts';
 import { datasetCacheKey, readCachedDataset, writeCachedDataset } from './cache.ts';
 import { InputError, inputErrorWithHint, InternalError } from '../errors.ts';
+import { tapFiles, type TappedHash } from '../readers/read-tap.ts';
 
 /** The manifest settings that change a dataset's numbers (and so its cache key). */
 export function datasetParameters(m: ResolvedManifest): Record<string, unknown> {
@@ -43,6 +44,38 @@ export interface DatasetJob {
   datasetIndex: number;
   /** Provenance from the build's hash of the inputs; the reader checks the files did not change. */
   files: FileProvenance[];
+  /**
+   * Indexes into `files` whose SHA-256 is not known yet (their `sha256` is empty): the task
+   * hashes them from its own reads (read-tap.ts) and the result carries the full provenance.
+   */
+  hashInPass?: number[];
+}
+
+/** A file hashed in a task's own reads: its provenance, and the bytes the tap read itself. */
+export interface HashedInPass extends FileProvenance {
+  reread: number;
+}
+
+/** Register taps for the job's files whose hash is pending (none: a no-op set). */
+function tapsFor(job: DatasetJob) {
+  const ds = job.manifest.datasets[job.datasetIndex];
+  const idx = job.hashInPass ?? [];
+  const set = tapFiles(idx.map((i) => ({ path: ds.files[i], relPath: job.files[i].path, size: job.files[i].bytes })));
+  return {
+    async finish(): Promise<HashedInPass[]> {
+      const got: TappedHash[] = await set.finish();
+      return idx.map((i, k) => ({ path: job.files[i].path, sha256: got[k].sha256, bytes: got[k].bytes, reread: got[k].reread }));
+    },
+    drop: () => set.drop(),
+  };
+}
+
+/** The job with the hashes learnt in the pass filled in. */
+export function withHashes(job: DatasetJob, hashed: HashedInPass[]): DatasetJob {
+  const by = new Map(hashed.map((h) => [h.path, h.sha256]));
+  const files = job.files.map((f) => (by.has(f.path) ? { ...f, sha256: by.get(f.path)! } : f));
+  if (files.some((f) => !f.sha256)) throw new InternalError(`a file of dataset ${job.datasetIndex} was never hashed`);
+  return { ...job, files, hashInPass: undefined };
 }
 
 /** Name the dataset in a reader's error, keeping its cause. */
@@ -69,36 +102,79 @@ function checkSameFiles(job: DatasetJob, read: FileProvenance[]): void {
   }
 }
 
-/** Compute (cache miss) and store a dataset result; returns it. */
-export async function computeDataset(job: DatasetJob, onBytes: (n: number) => void = () => {}): Promise<DatasetResult> {
-  const m = job.manifest;
-  const ds = m.datasets[job.datasetIndex];
-  const cacheKey = keyFor(ds, m, job.files);
-  const cached = readCachedDataset(job.workspace, cacheKey);
-  if (cached) return cached;
-  const source = await openForJob(job);
-  let partial: Omit<DatasetResult, 'cacheKey'>;
-  try {
-    partial = source.kind === 'activity' ? await computeActivity(ds, m, source, onBytes) : await computeWeights(ds, m, source, onBytes);
-  } catch (err) {
-    throw wrap(err, ds, m);
-  }
-  checkSameFiles(job, partial.files);
-  const result: DatasetResult = { ...partial, cacheKey };
-  writeCachedDataset(job.workspace, result);
-  return result;
+/** A dataset's result, and the files its task hashed in its own reads (`job.hashInPass`). */
+export interface DatasetOutcome {
+  result: DatasetResult;
+  hashed: HashedInPass[];
 }
 
-/** One worker's share of a split activity dataset: the pass state over units [unitStart, unitEnd). */
-export async function computePassPart(job: DatasetJob, range: { unitStart: number; unitEnd: number }, onBytes: (n: number) => void = () => {}): Promise<ActivityPassState> {
+/** Compute (cache miss) and store a dataset result; returns it. */
+export async function computeDataset(job: DatasetJob, onBytes: (n: number) => void = () => {}): Promise<DatasetResult> {
+  return (await measureDataset(job, onBytes)).result;
+}
+
+/**
+ * Compute (cache miss) and store a dataset result. A job with files to hash in the pass cannot
+ * know its cache key before it reads them (the key holds their hashes); it is a miss by
+ * construction (build.ts sends only new or resized files this way), and the key is made once
+ * the files are read.
+ */
+export async function measureDataset(job: DatasetJob, onBytes: (n: number) => void = () => {}): Promise<DatasetOutcome> {
   const m = job.manifest;
-  const source = await openForJob(job);
-  if (source.kind !== 'activity') throw new InternalError('computePassPart called on a weights dataset');
-  try {
-    return await runActivityPass(source, m, onBytes, range);
-  } catch (err) {
-    throw wrap(err, m.datasets[job.datasetIndex], m);
+  const ds = m.datasets[job.datasetIndex];
+  if (!job.hashInPass?.length) {
+    const cached = readCachedDataset(job.workspace, keyFor(ds, m, job.files));
+    if (cached) return { result: cached, hashed: [] };
   }
+  const taps = tapsFor(job);
+  let partial: Omit<DatasetResult, 'cacheKey'>;
+  try {
+    const source = await openForJob(job); // (names the dataset in its own errors)
+    try {
+      partial = source.kind === 'activity' ? await computeActivity(ds, m, source, onBytes) : await computeWeights(ds, m, source, onBytes);
+    } catch (err) {
+      throw wrap(err, ds, m);
+    }
+  } catch (err) {
+    taps.drop();
+    throw err;
+  }
+  const hashed = await taps.finish();
+  const done = withHashes(job, hashed);
+  checkSameFiles(job, partial.files);
+  const result: DatasetResult = { ...partial, files: done.files, cacheKey: keyFor(ds, m, done.files) };
+  writeCachedDataset(job.workspace, result);
+  return { result, hashed };
+}
+
+/** One lane's share of a split dataset, and the files it hashed (those of `job.hashInPass`). */
+export interface PassPart {
+  state: ActivityPassState;
+  hashed: HashedInPass[];
+}
+
+/**
+ * One worker's share of a split activity dataset: the pass state over units [unitStart, unitEnd).
+ * With `job.hashInPass`, this lane also hashes those files: from its own reads while they come in
+ * file order, then by reading the rest (the other ranges' bytes) itself.
+ */
+export async function computePassPart(job: DatasetJob, range: { unitStart: number; unitEnd: number }, onBytes: (n: number) => void = () => {}): Promise<PassPart> {
+  const m = job.manifest;
+  const taps = tapsFor(job);
+  let state: ActivityPassState;
+  try {
+    const source = await openForJob(job); // (names the dataset in its own errors)
+    if (source.kind !== 'activity') throw new InternalError('computePassPart called on a weights dataset');
+    try {
+      state = await runActivityPass(source, m, onBytes, range);
+    } catch (err) {
+      throw wrap(err, m.datasets[job.datasetIndex], m);
+    }
+  } catch (err) {
+    taps.drop();
+    throw err;
+  }
+  return { state, hashed: await taps.finish() };
 }
 
 /**

@@ -1,7 +1,8 @@
 /**
  * Run dataset tasks on lanes: worker threads plus, optionally, this thread as one more lane.
- * A task is the SHA-256 of one input file (→ hex string), a whole dataset (→ DatasetResult),
- * one unit range of a split activity dataset (→ its pass state), or one measure's summary and
+ * A task is the SHA-256 of one input file (→ hex string), a whole dataset (→ its DatasetResult, and the hashes of files it hashed in its reads),
+ * one unit range of a split activity dataset (→ its pass state, and the hashes of files it
+ * hashed in its reads), or one measure's summary and
  * interval of a split dataset being finished (→ MeasureResult). Results come back in task order. Progress (bytes measured) is reported
  * as lanes send it. The first failure stops handing out tasks and is rethrown; an InputError
  * from a worker stays an InputError here, with its chain of causes.
@@ -14,8 +15,7 @@ import { Worker } from 'node:worker_threads';
 import { inputErrorWithHint, InternalError } from '../errors.ts';
 import type { DatasetResult, MeasureResult } from '../types.ts';
 import { summarise, type SummariseJob } from './summarise.ts';
-import type { ActivityPassState } from '../metrics/activity-pass.ts';
-import { computeDataset, computePassPart, type DatasetJob } from './dataset.ts';
+import { computePassPart, measureDataset, type DatasetJob, type DatasetOutcome, type PassPart } from './dataset.ts';
 import { sha256File } from './cache.ts';
 
 export type Task =
@@ -23,7 +23,7 @@ export type Task =
   | { kind: 'dataset'; job: DatasetJob }
   | { kind: 'pass'; job: DatasetJob; range: { unitStart: number; unitEnd: number } }
   | { kind: 'summarise'; job: SummariseJob };
-export type TaskResult = DatasetResult | ActivityPassState | MeasureResult | string;
+export type TaskResult = DatasetOutcome | PassPart | MeasureResult | string;
 
 type Reply =
   | { id: number; progress: number }
@@ -34,7 +34,7 @@ type Reply =
 export async function runTask(task: Task, onBytes: (n: number) => void): Promise<TaskResult> {
   if (task.kind === 'hash') return sha256File(task.path, onBytes);
   if (task.kind === 'summarise') return summarise(task.job.plan, task.job.stat, task.job.summary);
-  return task.kind === 'dataset' ? computeDataset(task.job, onBytes) : computePassPart(task.job, task.range, onBytes);
+  return task.kind === 'dataset' ? measureDataset(task.job, onBytes) : computePassPart(task.job, task.range, onBytes);
 }
 
 export interface Pool {
@@ -119,6 +119,6 @@ export function createPool(workers: number, options: { mainLane: boolean }): Poo
 /** Only the plain fields a worker needs (structured clone of the task). */
 function strip(t: Task): Task {
   if (t.kind === 'summarise' || t.kind === 'hash') return t;
-  const job = { workspace: t.job.workspace, manifest: t.job.manifest, datasetIndex: t.job.datasetIndex, files: t.job.files };
+  const job = { workspace: t.job.workspace, manifest: t.job.manifest, datasetIndex: t.job.datasetIndex, files: t.job.files, hashInPass: t.job.hashInPass };
   return t.kind === 'dataset' ? { kind: 'dataset', job } : { kind: 'pass', job, range: t.range };
 }

@@ -6,6 +6,7 @@
  */
 import { open, type FileHandle } from 'node:fs/promises';
 import { InputError } from '../errors.ts';
+import { offerRead } from './read-tap.ts';
 
 export interface ByteSource {
   /** Bytes available, counted from the start of the range. */
@@ -44,6 +45,7 @@ export function fileRange(path: string, relPath: string, base: number, size: num
       }
       fh ??= await open(path, 'r');
       await readExactly(fh, base + offset, length, into, relPath);
+      offerRead(path, base + offset, length === into.length ? into : into.subarray(0, length)); // read-through hashing (read-tap.ts)
     },
     async close() {
       const h = fh;

@@ -16,6 +16,7 @@ import { open, type FileHandle } from 'node:fs/promises';
 import { Inflate } from 'fflate';
 import { inputError, readExactly, type ByteSource } from './byte-source.ts';
 import type { ZipEntry } from './zip.ts';
+import { offerRead } from './read-tap.ts';
 
 const PUSH = 16 << 10;
 export const MAX_DEFLATE_RATIO = 1032;
@@ -57,6 +58,7 @@ export function inflatedSource(path: string, relPath: string, entry: ZipEntry): 
     fh ??= await open(path, 'r');
     const n = Math.min(PUSH, entry.compressedSize - fed);
     await readExactly(fh, entry.dataStart + fed, n, inbuf, relPath);
+    offerRead(path, entry.dataStart + fed, inbuf.subarray(0, n)); // read-through hashing (read-tap.ts)
     fed += n;
     try {
       inf!.push(inbuf.slice(0, n), fed >= entry.compressedSize);

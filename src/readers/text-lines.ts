@@ -12,6 +12,7 @@
  */
 import { open } from 'node:fs/promises';
 import { inputError } from './byte-source.ts';
+import { offerRead } from './read-tap.ts';
 
 const CHUNK = 1 << 20;
 /**
@@ -42,6 +43,7 @@ export async function* textLines(path: string, relPath: string, maxBytes = Infin
     for (;;) {
       const want = Math.min(CHUNK, maxBytes - pos);
       const { bytesRead } = want > 0 ? await fh.read(buf, 0, want, pos) : { bytesRead: 0 };
+      if (bytesRead > 0) offerRead(path, pos, buf.subarray(0, bytesRead)); // read-through hashing (read-tap.ts)
       pos += bytesRead;
       const text = dec.decode(buf.subarray(0, bytesRead), { stream: bytesRead > 0 });
       const parts = text.split('\n');
