@@ -10,8 +10,10 @@
  *
  * The holder's details are written to a temporary file first and hard-linked to the lock's name
  * (link(2) fails if the name exists), so a lock is never seen half-written. A lock left by a
- * process that died is stale: on the same host, a pid that no longer exists frees the lock; on
- * another host we cannot tell, and the message says how to remove it.
+ * process that died is stale: on the same host, a pid that no longer exists frees the lock, and so
+ * does a pid that now belongs to a process started after the lock was taken (the holder died and
+ * the system gave its number to another process; Linux, from /proc); on another host we cannot
+ * tell, and the message says how to remove it.
  */
 import { hostname } from 'node:os';
 import { existsSync, linkSync, mkdirSync, readFileSync, renameSync, rmSync } from 'node:fs';
@@ -48,6 +50,35 @@ function alive(pid: number): boolean {
 }
 
 /**
+ * When the process now holding `pid` started (ms since the epoch), from Linux's /proc: field 22 of
+ * /proc/<pid>/stat is its start in clock ticks after boot, and `btime` in /proc/stat the boot time
+ * in seconds (proc(5)). A tick is 1/100 s: USER_HZ is 100 on every Linux architecture Node runs
+ * on. Null where /proc cannot tell (not Linux, or the process is gone).
+ */
+export function processStartMs(pid: number): number | null {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' '); // the name may hold spaces
+    const ticks = Number(fields[22 - 3]);
+    const btime = Number(/^btime (\d+)$/m.exec(readFileSync('/proc/stat', 'utf8'))?.[1]);
+    return Number.isFinite(ticks) && Number.isFinite(btime) ? btime * 1000 + ticks * 10 : null;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * The holder of a lock on this host has gone: its pid is free, or taken by a process that started
+ * after the lock was (2 s of slack: the boot time has whole seconds).
+ */
+function holderGone(holder: LockHolder): boolean {
+  if (!alive(holder.pid)) return true;
+  const since = processStartMs(holder.pid);
+  const taken = Date.parse(holder.started);
+  return since !== null && Number.isFinite(taken) && since > taken + 2000;
+}
+
+/**
  * Take the workspace lock or throw an `InputError` naming its holder. Returns the release
  * function (removes the lock if it is still ours).
  */
@@ -71,7 +102,7 @@ export function acquireWorkspaceLock(workspace: string, now: () => Date = () => 
       if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw err;
     }
     const holder = readHolder(file);
-    if (holder && holder.host === me.host && holder.pid !== process.pid && !alive(holder.pid)) {
+    if (holder && holder.host === me.host && holder.pid !== process.pid && holderGone(holder)) {
       // Stale: move it aside (one rename, so of two builds seeing it only one frees it) and retry.
       try {
         renameSync(file, `${file}.stale-${process.pid}`);

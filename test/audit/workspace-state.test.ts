@@ -6,14 +6,14 @@
  * marked in the site index, whose every link resolves.
  */
 import { describe, it, expect, afterAll } from 'vitest';
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, symlinkSync, writeFileSync } from 'node:fs';
 import { hostname, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { writeNpy } from '../../src/readers/npy-write.ts';
 import { createRandom } from '../../src/stats/random.ts';
 import { buildWorkspace } from '../../src/audit/build.ts';
-import { acquireWorkspaceLock, lockFile } from '../../src/audit/lock.ts';
+import { acquireWorkspaceLock, lockFile, processStartMs } from '../../src/audit/lock.ts';
 import { readRecord } from '../../src/audit/versions.ts';
 import { createProgress } from '../../src/cli/progress.ts';
 import { InputError } from '../../src/errors.ts';
@@ -121,6 +121,31 @@ describe('one build of a workspace at a time', () => {
     writeFileSync(lockFile(ws), JSON.stringify({ pid, host: hostname(), started: '2026-01-01T00:00:00.000Z' }));
     expect((await build(ws, join(ws, '_site'))).audits[0].version).toBe('v001');
     expect(existsSync(lockFile(ws))).toBe(false);
+  });
+
+  // The start time of a process from /proc (proc(5)); Linux only.
+  it.skipIf(process.platform !== 'linux')('a lock whose pid now belongs to a process started after the lock was taken is freed; one taken after its holder started is kept', async () => {
+    const ws = workspace(4);
+    const other = spawn('sleep', ['60'], { stdio: 'ignore' });
+    try {
+      await new Promise((r) => other.once('spawn', r));
+      const pid = other.pid!;
+      // Cross-check the start time against ps(1)'s elapsed seconds (procps, outside this project).
+      const etimes = Number(spawnSync('ps', ['-o', 'etimes=', '-p', String(pid)], { encoding: 'utf8' }).stdout.trim());
+      const started = processStartMs(pid);
+      expect(started).not.toBeNull();
+      if (Number.isFinite(etimes)) expect(Math.abs(Date.now() - etimes * 1000 - started!)).toBeLessThan(3000);
+      mkdirSync(dirname(lockFile(ws)), { recursive: true });
+      // Held by this pid since now: a live holder, refused.
+      writeFileSync(lockFile(ws), JSON.stringify({ pid, host: hostname(), started: new Date(Date.now() + 1000).toISOString() }));
+      expect(await failure(build(ws, join(ws, '_site')))).toBeInstanceOf(InputError);
+      // Taken an hour before this process existed: the pid was reused, the lock is stale.
+      writeFileSync(lockFile(ws), JSON.stringify({ pid, host: hostname(), started: new Date(Date.now() - 3_600_000).toISOString() }));
+      expect((await build(ws, join(ws, '_site'))).audits[0].version).toBe('v001');
+      expect(existsSync(lockFile(ws))).toBe(false);
+    } finally {
+      other.kill();
+    }
   });
 });
 
