@@ -24,7 +24,7 @@ import { InputError, InputErrors } from '../errors.ts';
 import type { AuditResult, DatasetResult, MeasureResult } from '../types.ts';
 import { TOOL_VERSION } from '../version.ts';
 import type { Progress } from '../cli/progress.ts';
-import { planHashes, readCachedDataset, recordHashes, type FileToHash } from './cache.ts';
+import { cleanCacheLeftovers, planHashes, readCachedDataset, recordHashes, type FileToHash } from './cache.ts';
 import { datasetParameters, finishSplit, keyFor, unitsOf, withHashes, type DatasetJob, type DatasetOutcome, type HashedInPass, type PassPart } from './dataset.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
 import { createPool, type Pool, type Task } from './pool.ts';
@@ -96,11 +96,30 @@ export const SPLIT_MIN_BYTES = 128 << 20;
 export const SPLIT_MIN_LANES = 2;
 
 /**
- * The lane that hashes a split dataset's files in its reads takes this share of the units: after
- * its range it reads the rest of the file for the hash alone, so an even split would make it the
- * last lane to finish. (Measured on 2 cores, docs/benchmark.md.)
+ * Costs on the benchmark machine (docs/benchmark.md, 2 cores), for sharing a split dataset's
+ * units between lanes: the one-pass measures take about 2.9 ns a byte of lane time when two lanes
+ * run at once, SHA-256 about 0.8 ns a byte, and loading the render modules on this thread about
+ * 0.7 s. Other machines differ; a wrong guess only makes one lane wait for the other.
  */
-export const HASHING_LANE_SHARE = 0.5;
+const PASS_S_PER_BYTE = 2.9e-9;
+const HASH_S_PER_BYTE = 0.8e-9;
+const PRELOAD_S = 0.7;
+
+/**
+ * The share of a split dataset's units for the lane that hashes its files in its reads (the
+ * first range). That lane also reads the rest of the file for the hash once its range is done,
+ * while this thread (another lane) may first load the render modules; the share evens the two
+ * out: with P the pass's lane time, H the hash's and L the load's, over W lanes,
+ * s·P + H = L + (1 − s)·P/(W − 1). At 381 MiB with the load it is about 0.67; at 4 GiB 0.40.
+ */
+export function hashingLaneShare(bytes: number, lanes: number, preloading: boolean): number {
+  const P = PASS_S_PER_BYTE * bytes;
+  const H = HASH_S_PER_BYTE * bytes;
+  const L = preloading ? PRELOAD_S : 0;
+  const w = Math.max(2, lanes);
+  const s = (L - H + P / (w - 1)) / ((P * w) / (w - 1));
+  return Math.min(0.8, Math.max(0.2, s));
+}
 
 /**
  * The files to hash in the pass that measures them (read-tap.ts): each fresh file (new to the
@@ -122,7 +141,7 @@ export function filesHashedInPass(datasets: string[][], pending: Map<string, Fil
 }
 
 /** Tasks for the datasets to compute, each with the index (into `todo`) of the dataset it serves. */
-async function planTasks(todo: (DatasetJob & { bytes: number })[], workers: number, minBytes: number): Promise<{ task: Task; owner: number }[]> {
+async function planTasks(todo: (DatasetJob & { bytes: number })[], workers: number, minBytes: number, preloading: boolean): Promise<{ task: Task; owner: number }[]> {
   const tasks: { task: Task; owner: number }[] = [];
   // Measured on 2 cores (381 MiB, docs/benchmark.md): two lanes over unit ranges, one range
   // each, took 0.9–1.1 s against 1.1–1.2 s for one lane; more, smaller ranges were slower
@@ -136,8 +155,9 @@ async function planTasks(todo: (DatasetJob & { bytes: number })[], workers: numb
       continue;
     }
     // Range boundaries: the first range (whose lane hashes, when the files need it) takes
-    // HASHING_LANE_SHARE of the units, the others share the rest evenly.
-    const first = job.hashInPass ? Math.max(1, Math.round(units * HASHING_LANE_SHARE)) : Math.floor(units / workers);
+    // `hashingLaneShare` of the units, the others share the rest evenly.
+    const share = job.hashInPass ? hashingLaneShare(job.bytes, workers, preloading) : 1 / workers;
+    const first = Math.min(units - (workers - 1), Math.max(1, Math.round(units * share)));
     const edge = (w: number) => (w === 0 ? 0 : first + Math.floor(((w - 1) * (units - first)) / (workers - 1)));
     for (let w = 0; w < workers; w++) {
       const range = { unitStart: edge(w), unitEnd: w === workers - 1 ? units : edge(w + 1) };
@@ -202,7 +222,7 @@ export async function buildWorkspace(o: BuildOptions): Promise<BuildSummary> {
   if (!shard) claimSite(o.out, workspace, readSiteState(o.out), o.adoptSite ?? false);
   const release = shard ? () => {} : acquireWorkspaceLock(workspace);
   try {
-    const left = shard ? [] : cleanRecordLeftovers(workspace);
+    const left = shard ? [] : [...cleanRecordLeftovers(workspace), ...cleanCacheLeftovers(workspace).map((f) => `.lacuna-cache/${f}`)];
     if (left.length) progress.info(`removed what an interrupted build left: ${left.join(', ')}`);
     return await buildLocked(o, manifests, everyManifest.map((m) => m.audit), shard, timings, lap, now);
   } finally {
@@ -294,7 +314,7 @@ async function buildWithPool(
   const hashedInPass: HashedInPass[] = [];
   if (todo.length) {
     const step = progress.step(`computing ${todo.length} dataset${todo.length === 1 ? '' : 's'}`, todo.reduce((s, j) => s + j.bytes, 0), 'bytes');
-    const tasks = await planTasks(todo, pool.lanes, o.splitMinBytes ?? SPLIT_MIN_BYTES);
+    const tasks = await planTasks(todo, pool.lanes, o.splitMinBytes ?? SPLIT_MIN_BYTES, preload !== null);
     const out = await pool.run(tasks.map((t) => t.task), (n) => step.advance(n), { mainLaneAfter: preload ?? undefined });
     const parts = new Map<number, { states: ActivityPassState[]; hashed: HashedInPass[] }>();
     for (let i = 0; i < tasks.length; i++) {

@@ -32,6 +32,36 @@ export function entryDigest(key: string, content: unknown): string {
   return createHash('sha256').update(key).update('\n').update(canonicalJson(content)).digest('hex');
 }
 
+/** A temporary file of the cache older than this is a killed writer's leftover. */
+export const CACHE_TMP_AGE_MS = 24 * 3600 * 1000;
+const CACHE_TMP = /\.json\.tmp-\d+-[a-z0-9]+$/;
+
+/**
+ * Remove the cache's temporary files (`*.json.tmp-PID-RANDOM`, written before a rename) that a
+ * killed build or shard left, once they are a day old. Shards write without the workspace lock,
+ * possibly on other hosts, so a younger one may be a running shard's entry about to be renamed
+ * into place; a day is longer than any build. Returns the paths removed, relative to the cache.
+ */
+export function cleanCacheLeftovers(workspace: string, now = Date.now()): string[] {
+  const removed: string[] = [];
+  for (const sub of ['', 'datasets', 'hashes.d']) {
+    const dir = join(cacheDir(workspace), sub);
+    if (!existsSync(dir)) continue;
+    for (const name of readdirSync(dir)) {
+      if (!CACHE_TMP.test(name)) continue;
+      const file = join(dir, name);
+      try {
+        if (now - statSync(file).mtimeMs < CACHE_TMP_AGE_MS) continue;
+        rmSync(file, { force: true });
+        removed.push(sub ? `${sub}/${name}` : name);
+      } catch {
+        // gone meanwhile
+      }
+    }
+  }
+  return removed;
+}
+
 /** Told about each cache entry that was refused (its file, and why). */
 export type OnReject = (file: string, reason: string) => void;
 

@@ -7,7 +7,7 @@
  */
 import { describe, it, expect, afterAll } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, mkdirSync, rmSync, utimesSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, mkdirSync, rmSync, utimesSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { planHashes, recordHashes, sha256File } from '../../src/audit/cache.ts';
@@ -91,5 +91,26 @@ describe('input hashing', () => {
     // recordHashes merges: recording one file keeps the others.
     recordHashes(ws, [{ file: { ...touched.toHash[0], mtimeMs: 1 }, sha256: 'x'.repeat(64) }]);
     expect(planHashes(ws, files).toHash.map((f) => f.rel)).toEqual(['data/m2.npy']);
+  });
+
+  it('a plain build removes temporary cache files a killed writer left a day ago, and keeps younger ones (a shard may be writing them)', async () => {
+    const ws = workspace();
+    const progress = createProgress({ quiet: true });
+    await buildWorkspace({ workspace: ws, out: join(ws, '_site'), progress, workers: '1' });
+    const cache = join(ws, '.lacuna-cache');
+    mkdirSync(join(cache, 'hashes.d'), { recursive: true });
+    const old = [join(cache, 'hashes.json.tmp-123-abc'), join(cache, 'datasets', 'f00.json.tmp-45-z9'), join(cache, 'hashes.d', '1-2-x.json.tmp-6-q')];
+    const young = join(cache, 'datasets', 'f01.json.tmp-46-y8');
+    const unrelated = join(cache, 'datasets', 'notes.txt');
+    const twoDaysAgo = new Date(Date.now() - 2 * 24 * 3600 * 1000);
+    for (const f of [...old, young, unrelated]) writeFileSync(f, '{');
+    for (const f of [...old, unrelated]) utimesSync(f, twoDaysAgo, twoDaysAgo);
+    // A shard takes no lock and cleans nothing.
+    await buildWorkspace({ workspace: ws, out: join(ws, '_site'), progress, workers: '1', shard: '1/1' });
+    for (const f of old) expect(existsSync(f), f).toBe(true);
+    await buildWorkspace({ workspace: ws, out: join(ws, '_site'), progress, workers: '1' });
+    for (const f of old) expect(existsSync(f), f).toBe(false);
+    expect(existsSync(young)).toBe(true);
+    expect(existsSync(unrelated)).toBe(true);
   });
 });
