@@ -161,7 +161,7 @@ async function planTasks(todo: (DatasetJob & { bytes: number })[], workers: numb
     const edge = (w: number) => (w === 0 ? 0 : first + Math.floor(((w - 1) * (units - first)) / (workers - 1)));
     for (let w = 0; w < workers; w++) {
       const range = { unitStart: edge(w), unitEnd: w === workers - 1 ? units : edge(w + 1) };
-      tasks.push({ task: { kind: 'pass', job: w === 0 ? job : { ...job, hashInPass: undefined }, range }, owner });
+      tasks.push({ task: { kind: 'pass', job: w === 0 ? job : { ...job, hashInPass: undefined, stamps: undefined }, range }, owner });
     }
   }
   return tasks;
@@ -303,8 +303,12 @@ async function buildWithPool(
   const jobs: (DatasetJob & { key: string | null; bytes: number })[] = chosen.map(({ m, d, i }) => {
     const files = d.relFiles.map((r) => provenance.get(r) ?? { path: r, sha256: '', bytes: pending.get(r)!.size });
     const hashInPass = d.relFiles.flatMap((r, k) => (inPass.has(r) ? [k] : []));
+    const stamps = hashInPass.map((k) => pending.get(d.relFiles[k])!);
     const key = hashInPass.length ? null : keyFor(d, m, files);
-    return { workspace, manifest: m, datasetIndex: i, files, hashInPass: hashInPass.length ? hashInPass : undefined, key, bytes: files.reduce((s, f) => s + f.bytes, 0) };
+    return {
+      workspace, manifest: m, datasetIndex: i, files, key, bytes: files.reduce((s, f) => s + f.bytes, 0),
+      ...(hashInPass.length ? { hashInPass, stamps: stamps.map((f) => ({ mtimeMs: f.mtimeMs, ctimeMs: f.ctimeMs, ino: f.ino })) } : {}),
+    };
   });
   const results: (DatasetResult | undefined)[] = jobs.map((j) => (j.key ? (readCachedDataset(workspace, j.key, notice) ?? undefined) : undefined));
   const todoIndex = jobs.flatMap((_, k) => (results[k] ? [] : [k]));

@@ -16,7 +16,7 @@ import { activityResult, computeActivity, runActivityPass, sourceMeta } from './
 import { computeWeights } from './weights.ts';
 import { datasetCacheKey, readCachedDataset, writeCachedDataset } from './cache.ts';
 import { InputError, inputErrorWithHint, InternalError } from '../errors.ts';
-import { tapFiles, type TappedHash } from '../readers/read-tap.ts';
+import { tapFiles, type FileStamp, type TappedHash } from '../readers/read-tap.ts';
 
 /** The manifest settings that change a dataset's numbers (and so its cache key). */
 export function datasetParameters(m: ResolvedManifest): Record<string, unknown> {
@@ -49,6 +49,8 @@ export interface DatasetJob {
    * hashes them from its own reads (read-tap.ts) and the result carries the full provenance.
    */
   hashInPass?: number[];
+  /** For each index of `hashInPass`, the file's identity when the build planned to hash it. */
+  stamps?: FileStamp[];
 }
 
 /** A file hashed in a task's own reads: its provenance, and the bytes the tap read itself. */
@@ -60,7 +62,7 @@ export interface HashedInPass extends FileProvenance {
 function tapsFor(job: DatasetJob) {
   const ds = job.manifest.datasets[job.datasetIndex];
   const idx = job.hashInPass ?? [];
-  const set = tapFiles(idx.map((i) => ({ path: ds.files[i], relPath: job.files[i].path, size: job.files[i].bytes })));
+  const set = tapFiles(idx.map((i, k) => ({ path: ds.files[i], relPath: job.files[i].path, size: job.files[i].bytes, stamp: job.stamps?.[k] })));
   return {
     async finish(): Promise<HashedInPass[]> {
       const got: TappedHash[] = await set.finish();
@@ -73,9 +75,9 @@ function tapsFor(job: DatasetJob) {
 /** The job with the hashes learnt in the pass filled in. */
 export function withHashes(job: DatasetJob, hashed: HashedInPass[]): DatasetJob {
   const by = new Map(hashed.map((h) => [h.path, h.sha256]));
-  const files = job.files.map((f) => (by.has(f.path) ? { ...f, sha256: by.get(f.path)! } : f));
+  const files = job.files.map((f) => ({ path: f.path, sha256: by.get(f.path) ?? f.sha256, bytes: f.bytes }));
   if (files.some((f) => !f.sha256)) throw new InternalError(`a file of dataset ${job.datasetIndex} was never hashed`);
-  return { ...job, files, hashInPass: undefined };
+  return { ...job, files, hashInPass: undefined, stamps: undefined };
 }
 
 /** Name the dataset in a reader's error, keeping its cause. */

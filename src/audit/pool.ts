@@ -119,6 +119,6 @@ export function createPool(workers: number, options: { mainLane: boolean }): Poo
 /** Only the plain fields a worker needs (structured clone of the task). */
 function strip(t: Task): Task {
   if (t.kind === 'summarise' || t.kind === 'hash') return t;
-  const job = { workspace: t.job.workspace, manifest: t.job.manifest, datasetIndex: t.job.datasetIndex, files: t.job.files, hashInPass: t.job.hashInPass };
+  const job = { workspace: t.job.workspace, manifest: t.job.manifest, datasetIndex: t.job.datasetIndex, files: t.job.files, hashInPass: t.job.hashInPass, stamps: t.job.stamps };
   return t.kind === 'dataset' ? { kind: 'dataset', job } : { kind: 'pass', job, range: t.range };
 }

@@ -26,6 +26,13 @@ import { open } from 'node:fs/promises';
 import { resolve } from 'node:path';
 import { InputError } from '../errors.ts';
 
+/** A file's identity when the build planned to hash it (its size is given apart). */
+export interface FileStamp {
+  mtimeMs: number;
+  ctimeMs: number;
+  ino: number;
+}
+
 /** A file's digest from a tap, and how many of its bytes the tap read itself. */
 export interface TappedHash {
   sha256: string;
@@ -46,6 +53,7 @@ class HashTap {
     private readonly path: string,
     private readonly relPath: string,
     private readonly size: number,
+    private readonly stamp?: FileStamp,
   ) {}
 
   offer(position: number, bytes: Uint8Array): void {
@@ -86,6 +94,12 @@ class HashTap {
     if (start > this.size) throw this.changed(`${start} bytes were read`);
     const fh = await open(this.path, 'r');
     try {
+      if (this.stamp) {
+        // The bytes hashed and measured are those planned: same file, not modified since.
+        const st = await fh.stat();
+        if (st.ino !== this.stamp.ino) throw this.changed('another file in its place');
+        if (st.mtimeMs !== this.stamp.mtimeMs || st.ctimeMs !== this.stamp.ctimeMs) throw this.changed('a new modification time');
+      }
       const buf = new Uint8Array(Math.max(1, Math.min(4 << 20, this.size - start)));
       for (let pos = start; ; ) {
         const { bytesRead } = await fh.read(buf, 0, buf.length, pos);
@@ -126,9 +140,12 @@ export interface TapSet {
   drop(): void;
 }
 
-/** Register a tap for each file (absolute path, workspace-relative path, planned size). */
-export function tapFiles(files: { path: string; relPath: string; size: number }[]): TapSet {
-  const mine: [string, HashTap][] = files.map((f) => [resolve(f.path), new HashTap(resolve(f.path), f.relPath, f.size)]);
+/**
+ * Register a tap for each file (absolute path, workspace-relative path, planned size and, when
+ * given, the identity it had when planned: `finish()` refuses a file that no longer has it).
+ */
+export function tapFiles(files: { path: string; relPath: string; size: number; stamp?: FileStamp }[]): TapSet {
+  const mine: [string, HashTap][] = files.map((f) => [resolve(f.path), new HashTap(resolve(f.path), f.relPath, f.size, f.stamp)]);
   for (const [key, tap] of mine) taps.set(key, tap);
   const drop = () => {
     for (const [key, tap] of mine) {

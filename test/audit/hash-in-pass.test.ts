@@ -92,6 +92,22 @@ describe.skipIf(!hasSha256sum)('a tap hashes the bytes it is offered in file ord
     expect((err as { file?: string }).file).toBe('data/bytes.bin');
   });
 
+  it('a file modified or replaced since it was planned is refused, naming it', async () => {
+    const f = join(dir, 'stamped.bin');
+    writeFileSync(f, data.subarray(0, 1000));
+    const st = statSync(f);
+    const stamp = { mtimeMs: st.mtimeMs, ctimeMs: st.ctimeMs, ino: st.ino };
+    const same = tapFiles([{ path: f, relPath: 'data/stamped.bin', size: 1000, stamp }]);
+    expect((await same.finish())[0].sha256).toBe(sha256sum(f));
+    const later = new Date(Date.now() + 5000);
+    utimesSync(f, later, later); // same bytes, same size: only the times say it was written
+    const touched = tapFiles([{ path: f, relPath: 'data/stamped.bin', size: 1000, stamp }]);
+    const err = await touched.finish().then(() => null, (e: Error) => e);
+    expect(err?.name).toBe('InputError');
+    expect(String(err?.message)).toMatch(/changed while it was being read.*new modification time/);
+    expect((err as { file?: string }).file).toBe('data/stamped.bin');
+  });
+
   it('offers for a file nobody tapped, or after the task, change nothing', async () => {
     const { offerRead } = await import('../../src/readers/read-tap.ts');
     const t = tapFiles([{ path: resolve(file), relPath: 'bytes.bin', size: data.length }]);
