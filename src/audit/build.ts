@@ -347,7 +347,7 @@ async function buildWithPool(
       hashed.inPass += h.bytes;
       hashed.reread += h.reread;
     }
-    step.done(`${cached} from cache`);
+    step.done(`${cached} from cache${inPass.size ? `; ${inPass.size} new input file${inPass.size === 1 ? '' : 's'} hashed as ${inPass.size === 1 ? 'it was' : 'they were'} read` : ''}`);
   } else {
     progress.info(`all ${jobs.length} dataset results taken from the cache`);
   }
