@@ -23,7 +23,7 @@ import type { Progress } from '../cli/progress.ts';
 import { TOOL_VERSION } from '../version.ts';
 import { compareVersions } from './compare.ts';
 import { RenderFailure, type RenderFailureItem } from './render-failure.ts';
-import { cleanSiteLeftovers, refuseSymlink } from './state-files.ts';
+import { cleanSiteLeftovers, refuseSymlink, removeUnrecordedPages } from './state-files.ts';
 import { claimSite, indexesDigest, readSiteState, writeSiteState, type SiteState } from './site-state.ts';
 import { listRecords, type VersionRecord } from './versions.ts';
 import type { AuditResult, VersionEntry } from '../types.ts';
@@ -77,6 +77,13 @@ export async function renderSite(out: string, workspace: string, manifestAudits:
   const removed = cleanSiteLeftovers(out, allAudits);
   if (removed.length) progress.info(`removed what an interrupted build left in ${out}: ${removed.join(', ')}`);
 
+  // Pages no record backs any more (an adopted site's other audits and versions; records
+  // deleted by hand) leave the site; the indexes below are then written again.
+  const listed = new Map(allAudits.map((a) => [a, listRecords(workspace, a)] as const));
+  const recorded = new Map([...listed].filter(([, r]) => r.length > 0).map(([a, r]) => [a, new Set(r.map((x) => x.record.entry.version))] as const));
+  const unbacked = state ? removeUnrecordedPages(out, state.pages, recorded) : [];
+  if (unbacked.length) progress.info(`removed pages no record of this workspace backs: ${unbacked.join(', ')}`);
+
   // 3. Plan.
   const present = new Set(manifestAudits);
   const pages: SiteState['pages'] = {};
@@ -84,7 +91,7 @@ export async function renderSite(out: string, workspace: string, manifestAudits:
   const indexes: IndexInput[] = [];
   const recordsOf = new Map<string, VersionRecord[]>();
   for (const audit of allAudits) {
-    const records = listRecords(workspace, audit);
+    const records = listed.get(audit)!;
     if (!records.length) continue;
     recordsOf.set(audit, records.map((r) => r.record));
     pages[audit] = {};
@@ -106,6 +113,7 @@ export async function renderSite(out: string, workspace: string, manifestAudits:
   const missing = (p: string) => !existsSync(join(out, p));
   const indexesCurrent =
     state !== null &&
+    unbacked.length === 0 &&
     state.workspace === realWorkspace &&
     state.indexes === digest &&
     !missing('index.html') &&

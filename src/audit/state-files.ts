@@ -139,3 +139,34 @@ export function cleanSiteLeftovers(out: string, audits: string[]): string[] {
   }
   return removed;
 }
+
+/**
+ * Remove the pages a site's state lists but no record of this workspace backs: the version folders
+ * (and, for an audit with no records left, its whole folder) of another workspace whose site was
+ * adopted, or of records deleted by hand. Such pages would otherwise stay published, reachable by
+ * their address and listed nowhere. Only folders the state names are touched, so a folder Lacuna
+ * did not write is never removed. Returns what was removed, relative to `out`.
+ */
+export function removeUnrecordedPages(out: string, listed: Record<string, Record<string, string>>, recorded: Map<string, Set<string>>): string[] {
+  const removed: string[] = [];
+  const safe = /^[A-Za-z0-9][A-Za-z0-9._-]*$/; // audit slugs and version names; never '..' or a path
+  for (const audit of Object.keys(listed)) {
+    if (!safe.test(audit) || audit === '..' || audit === 'assets') continue;
+    const versions = recorded.get(audit);
+    const dir = join(out, audit);
+    if (!existsSync(dir) || lstatSync(dir).isSymbolicLink()) continue;
+    if (!versions) {
+      rmSync(dir, { recursive: true, force: true });
+      removed.push(audit);
+      continue;
+    }
+    for (const version of Object.keys(listed[audit] ?? {})) {
+      if (versions.has(version) || !safe.test(version) || version === '..' || version === 'latest') continue;
+      const v = join(dir, version);
+      if (!existsSync(v) || lstatSync(v).isSymbolicLink()) continue;
+      rmSync(v, { recursive: true, force: true });
+      removed.push(`${audit}/${version}`);
+    }
+  }
+  return removed;
+}

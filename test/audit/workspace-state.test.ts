@@ -170,6 +170,31 @@ describe('a site folder belongs to one workspace', () => {
     // The site is now b's: a is refused.
     expect(await failure(build(a, out))).toBeInstanceOf(InputError);
   });
+
+  it("adopting a site removes the other workspace's pages that no record here backs, and nothing it did not write", async () => {
+    const a = workspace(12, ['fixture', 'only-a']);
+    const b = workspace(13, ['fixture']);
+    const out = join(temp('lacuna-site-'), 'site');
+    await build(a, out);
+    // a gets a second version of `fixture`: b has only v001.
+    writeFileSync(join(a, 'audits', 'fixture.md'), readFileSync(join(a, 'audits', 'fixture.md'), 'utf8').replace('title: Audit fixture', 'title: Audit fixture, retitled'));
+    await build(a, out);
+    expect(existsSync(join(out, 'fixture', 'v002', 'index.html'))).toBe(true);
+    mkdirSync(join(out, 'notes'));
+    writeFileSync(join(out, 'notes', 'README.txt'), 'a file the lab put here');
+    await build(b, out, { adoptSite: true });
+    expect(existsSync(join(out, 'only-a'))).toBe(false);
+    expect(existsSync(join(out, 'fixture', 'v002'))).toBe(false);
+    expect(existsSync(join(out, 'fixture', 'v001', 'index.html'))).toBe(true);
+    expect(readFileSync(join(out, 'notes', 'README.txt'), 'utf8')).toBe('a file the lab put here');
+    const index = readFileSync(join(out, 'index.html'), 'utf8');
+    expect(index).not.toContain('only-a');
+    expect(readFileSync(join(out, 'fixture', 'index.html'), 'utf8')).not.toContain('v002');
+    // No page of a's is left anywhere in the site.
+    const aSha = readRecord(a, 'fixture', 'v001').result.inputs[0].sha256.slice(0, 12);
+    const files = (readdirSync(out, { recursive: true }) as string[]).filter((f) => f.endsWith('.html') || f.endsWith('.json'));
+    for (const f of files) expect(readFileSync(join(out, f), 'utf8'), f).not.toContain(aSha);
+  });
 });
 
 /** Every relative link of an HTML page that points at a file must resolve. */
