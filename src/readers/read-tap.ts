@@ -47,7 +47,6 @@ class HashTap {
   private readonly hash: Hash = createHash('sha256');
   private cursor = 0;
   private filled = 0;
-  private fd: number | null = null;
 
   constructor(
     private readonly path: string,
@@ -64,14 +63,18 @@ class HashTap {
     this.cursor = end;
   }
 
-  /** Read and hash [cursor, to) now (synchronously: an offer must not yield). */
+  /**
+   * Read and hash [cursor, to) now (synchronously: an offer must not yield). The descriptor is
+   * closed at once: a dataset of thousands of files must not hold one open per file.
+   */
   private fillTo(to: number): void {
+    let fd: number | null = null;
     try {
-      this.fd ??= openSync(this.path, 'r');
+      fd = openSync(this.path, 'r');
       const gap = new Uint8Array(to - this.cursor);
       let got = 0;
       while (got < gap.length) {
-        const n = readSync(this.fd, gap, got, gap.length - got, this.cursor + got);
+        const n = readSync(fd, gap, got, gap.length - got, this.cursor + got);
         if (n === 0) return; // shorter than the readers think: finish() says so
         got += n;
       }
@@ -80,12 +83,9 @@ class HashTap {
       this.cursor = to;
     } catch {
       // leave the gap: finish() reads from the cursor, and fails there if the file is gone
+    } finally {
+      if (fd !== null) closeSync(fd);
     }
-  }
-
-  close(): void {
-    if (this.fd !== null) closeSync(this.fd);
-    this.fd = null;
   }
 
   /** Hash the rest of the file from where the readers' in-order reads stopped. */
@@ -148,10 +148,7 @@ export function tapFiles(files: { path: string; relPath: string; size: number; s
   const mine: [string, HashTap][] = files.map((f) => [resolve(f.path), new HashTap(resolve(f.path), f.relPath, f.size, f.stamp)]);
   for (const [key, tap] of mine) taps.set(key, tap);
   const drop = () => {
-    for (const [key, tap] of mine) {
-      if (taps.get(key) === tap) taps.delete(key);
-      tap.close();
-    }
+    for (const [key, tap] of mine) if (taps.get(key) === tap) taps.delete(key);
   };
   return {
     async finish() {
