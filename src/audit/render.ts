@@ -116,73 +116,49 @@ export async function renderSite(out: string, workspace: string, manifestAudits:
     return [];
   }
 
-  // 4. Versions. With enough charts, a worker shares the charts' compiles (Vega-Lite → Vega)
-  //    while this thread draws them, up to one version ahead (src/charts/compile-ahead.ts).
-  const [{ renderVersion, renderAuditIndex, renderSiteIndex, copyAssets }, { buildCharts, renderChartSvgs, compileAheadWorthwhile, startChartCompiler }] = await loadRenderModules();
+  // 4. Versions.
+  const [{ renderVersion, renderAuditIndex, renderSiteIndex, copyAssets }, { buildCharts, renderChartSvgs }] = await loadRenderModules();
   const rendered: string[] = [];
   const step = progress.step('rendering pages', pending.length);
   // A version that cannot be rendered is left out (its record stays the truth); the rest of the
   // site is written and the build then stops with a RenderFailure naming it. The site state does
   // not list it, so the next build renders it again.
   const failures: RenderFailureItem[] = [];
-  const plans = pending.map((p) => {
+  for (const p of pending) {
     const records = recordsOf.get(p.audit)!;
-    const idx = records.findIndex((r) => r.entry.version === p.version);
-    return { ...p, records, idx, rec: records[idx] };
-  });
-  const compiler = compileAheadWorthwhile(plans.reduce((k, p) => k + p.rec.result.datasets.length, 0)) ? startChartCompiler() : null;
-  /** A version's charts and their compiles, submitted; or why its charts could not be made. */
-  const prepare = (i: number) => {
+    const all = records.map((r) => r.entry);
+    const idx = all.findIndex((v) => v.version === p.version);
+    const rec = records[idx];
+    const prev = idx > 0 ? records[idx - 1].result : null;
+    const failed = (what: 'charts' | 'pages', cause: unknown) =>
+      failures.push({ audit: p.audit, version: p.version, step: what, record: `records/${p.audit}/${p.version}.json`, cause });
+    let charts: Awaited<ReturnType<typeof renderChartSvgs>>;
     try {
-      const charts = buildCharts(plans[i].rec.result);
-      return { charts, ahead: compiler?.submit(charts) ?? null };
+      charts = await renderChartSvgs(buildCharts(rec.result));
     } catch (err) {
-      return { error: err };
+      failed('charts', err);
+      continue;
     }
-  };
-  try {
-    let next = plans.length ? prepare(0) : null;
-    for (const [i, p] of plans.entries()) {
-      const made = next!;
-      next = i + 1 < plans.length ? prepare(i + 1) : null;
-      const { records, idx, rec } = p;
-      const all = records.map((r) => r.entry);
-      const prev = idx > 0 ? records[idx - 1].result : null;
-      const failed = (what: 'charts' | 'pages', cause: unknown) =>
-        failures.push({ audit: p.audit, version: p.version, step: what, record: `records/${p.audit}/${p.version}.json`, cause });
-      let charts: Awaited<ReturnType<typeof renderChartSvgs>>;
-      try {
-        if ('error' in made) throw made.error;
-        charts = await renderChartSvgs(made.charts, { ahead: made.ahead });
-      } catch (err) {
-        if (!('error' in made)) made.ahead?.live(); // ends the batch on the worker
-        failed('charts', err);
-        continue;
-      }
-      const liveSpecs = made.ahead?.live();
-      const target = join(out, p.audit, p.version);
-      const tmp = join(out, p.audit, `.tmp-${p.version}-${process.pid}`);
-      const old = join(out, p.audit, `.tmp-old-${p.version}-${process.pid}`);
+    const target = join(out, p.audit, p.version);
+    const tmp = join(out, p.audit, `.tmp-${p.version}-${process.pid}`);
+    const old = join(out, p.audit, `.tmp-old-${p.version}-${process.pid}`);
+    rmSync(tmp, { recursive: true, force: true });
+    mkdirSync(tmp, { recursive: true });
+    try {
+      // A version's page lists only its own history, so regenerating it later gives the same page.
+      await renderVersion({ result: rec.result, charts, comparison: prev ? compareVersions(prev, rec.result) : null, versions: all.slice(0, idx + 1) }, tmp);
+      // A folder already there is a leftover or a page of another record: moved aside, then removed.
+      if (existsSync(target)) renameSync(target, old);
+      renameSync(tmp, target);
+      rmSync(old, { recursive: true, force: true });
+    } catch (err) {
       rmSync(tmp, { recursive: true, force: true });
-      mkdirSync(tmp, { recursive: true });
-      try {
-        // A version's page lists only its own history, so regenerating it later gives the same page.
-        await renderVersion({ result: rec.result, charts, comparison: prev ? compareVersions(prev, rec.result) : null, versions: all.slice(0, idx + 1), liveSpecs }, tmp);
-        // A folder already there is a leftover or a page of another record: moved aside, then removed.
-        if (existsSync(target)) renameSync(target, old);
-        renameSync(tmp, target);
-        rmSync(old, { recursive: true, force: true });
-      } catch (err) {
-        rmSync(tmp, { recursive: true, force: true });
-        failed('pages', err);
-        continue;
-      }
-      pages[p.audit][p.version] = p.digest;
-      rendered.push(`${p.audit}/${p.version}`);
-      step.advance(1);
+      failed('pages', err);
+      continue;
     }
-  } finally {
-    await compiler?.close();
+    pages[p.audit][p.version] = p.digest;
+    rendered.push(`${p.audit}/${p.version}`);
+    step.advance(1);
   }
   step.done();
 

@@ -25,8 +25,6 @@ import { pushAll } from '../util/arrays.ts';
 
 export { compileToVega, renderChartSvg, renderChartSvgs } from './render.ts';
 export type { ChartLogger } from './render.ts';
-export { compileAheadWorthwhile, startChartCompiler } from './compile-ahead.ts';
-export type { ChartBatch, ChartCompiler } from './compile-ahead.ts';
 export { driftCharts, driftSeriesChart } from './drift.ts';
 export { kurtosisChart } from './kurtosis.ts';
 export { layerDensityChart } from './layer-density.ts';

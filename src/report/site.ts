@@ -41,11 +41,6 @@ export interface RenderVersionInput {
   comparison: VersionComparison | null;
   /** Every version of this audit, this one included (for navigation). */
   versions: VersionEntry[];
-  /**
-   * The charts' full specs compiled to Vega already (`src/charts/compile-ahead.ts`),
-   * keyed by the `spec` object; charts not in it are compiled here.
-   */
-  liveSpecs?: Map<object, Record<string, unknown>>;
 }
 
 /** Problems that did not stop the build (a chart that failed to compile, an SVG refused). */
@@ -71,8 +66,7 @@ export async function renderVersion(input: RenderVersionInput, targetDir: string
   const { result, comparison } = input;
   // 1. charts
   const anchorFor = uniqueSlugger();
-  const compile = (spec: Record<string, unknown>) => input.liveSpecs?.get(spec) ?? compileToVega(spec, { logger: { warn() {} } });
-  const prepared = chartModels(input.charts, { compile, slugger: anchorFor });
+  const prepared = chartModels(input.charts, { compile: (spec) => compileToVega(spec, { logger: { warn() {} } }), slugger: anchorFor });
   const reportCharts = prepared.charts.filter((c) => !isDriftChart(c));
   const datasetHref = datasetPaths(result);
   const driftCharts = prepared.charts.filter((c) => isDriftChart(c));
