@@ -311,3 +311,6 @@ for (const k of ['density', 'population_sparseness', 'lifetime_sparseness', 'kur
 }
 const iv = measures.population_sparseness.interval as [number, number];
 console.log(`population interval     [${iv[0].toFixed(5)}, ${iv[1].toFixed(5)}]     [${ref.interval.lower.toFixed(5)}, ${ref.interval.upper.toFixed(5)}] (different random streams)`);
+
+// The demo's first build and no-op rebuild, with the same flags and repeats (scripts/bench-demo.ts; `--no-demo` skips).
+if (!process.argv.includes('--no-demo')) await (await import('./bench-demo.ts')).benchDemo({ repeat, nodeFlags, print: (line) => console.log(line) });
