@@ -27,7 +27,7 @@ import type { Progress } from '../cli/progress.ts';
 import { cleanCacheLeftovers, planHashes, readCachedDataset, recordHashes, type FileToHash } from './cache.ts';
 import { datasetParameters, finishSplit, keyFor, unitsOf, withHashes, type DatasetJob, type DatasetOutcome, type HashedInPass, type PassPart } from './dataset.ts';
 import type { ActivityPassState } from '../metrics/activity-pass.ts';
-import { createPool, type Pool, type Task } from './pool.ts';
+import { createPool, type Pool, type Task, type TaskResult } from './pool.ts';
 import { acquireWorkspaceLock } from './lock.ts';
 import { loadRenderModules, renderSite } from './render.ts';
 import { claimSite, readSiteState } from './site-state.ts';
@@ -319,14 +319,24 @@ async function buildWithPool(
   if (todo.length) {
     const step = progress.step(`computing ${todo.length} dataset${todo.length === 1 ? '' : 's'}`, todo.reduce((s, j) => s + j.bytes, 0), 'bytes');
     const tasks = await planTasks(todo, pool.lanes, o.splitMinBytes ?? SPLIT_MIN_BYTES, preload !== null);
-    const out = await pool.run(tasks.map((t) => t.task), (n) => step.advance(n), { mainLaneAfter: preload ?? undefined });
+    // Hashes learnt in the pass are kept as each task ends, and recorded even when a later
+    // dataset fails: the next build then finds the datasets that were computed in the cache
+    // instead of measuring them again to learn their files' hashes.
+    let out: TaskResult[];
+    try {
+      out = await pool.run(
+        tasks.map((t) => t.task),
+        (n) => step.advance(n),
+        { mainLaneAfter: preload ?? undefined, onResult: (i, r) => pushAll(hashedInPass, tasks[i].task.kind === 'dataset' ? (r as DatasetOutcome).hashed : (r as PassPart).hashed) },
+      );
+    } finally {
+      record(hashedInPass.map((h) => ({ file: pending.get(h.path)!, sha256: h.sha256 })));
+    }
     const parts = new Map<number, { states: ActivityPassState[]; hashed: HashedInPass[] }>();
     for (let i = 0; i < tasks.length; i++) {
       const { task, owner } = tasks[i];
       if (task.kind === 'dataset') {
-        const { result, hashed } = out[i] as DatasetOutcome;
-        results[todoIndex[owner]] = result;
-        pushAll(hashedInPass, hashed);
+        results[todoIndex[owner]] = (out[i] as DatasetOutcome).result;
       } else if (task.kind === 'pass') {
         const part = out[i] as PassPart;
         const p = parts.get(owner) ?? { states: [], hashed: [] };
@@ -337,12 +347,10 @@ async function buildWithPool(
     }
     split = parts.size;
     for (const [owner, { states, hashed }] of parts) {
-      pushAll(hashedInPass, hashed);
       // The measures' intervals of the merged dataset are spread over the lanes too.
       const job = withHashes(todo[owner], hashed);
       results[todoIndex[owner]] = await finishSplit(job, states, async (jobs) => (await pool.run(jobs.map((job) => ({ kind: 'summarise' as const, job })), () => {})) as MeasureResult[]);
     }
-    record(hashedInPass.map((h) => ({ file: pending.get(h.path)!, sha256: h.sha256 })));
     for (const h of hashedInPass) {
       hashed.inPass += h.bytes;
       hashed.reread += h.reread;

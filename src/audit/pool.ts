@@ -42,9 +42,11 @@ export interface Pool {
   lanes: number;
   /**
    * Run `tasks`; with `mainLaneAfter`, this thread takes tasks only once that promise settles
-   * (it is busy with other work meanwhile, e.g. loading the render modules).
+   * (it is busy with other work meanwhile, e.g. loading the render modules). `onResult` is told
+   * of each task's result as it arrives, so a caller keeps what finished even when a later task
+   * fails and `run` rejects.
    */
-  run(tasks: Task[], onBytes: (n: number) => void, options?: { mainLaneAfter?: Promise<unknown> }): Promise<TaskResult[]>;
+  run(tasks: Task[], onBytes: (n: number) => void, options?: { mainLaneAfter?: Promise<unknown>; onResult?: (index: number, result: TaskResult) => void }): Promise<TaskResult[]>;
   close(): Promise<void>;
 }
 
@@ -69,7 +71,10 @@ export function createPool(workers: number, options: { mainLane: boolean }): Poo
       const take = () => (failed === null && next < tasks.length ? next++ : -1);
       const mainLane = async () => {
         if (runOptions.mainLaneAfter) await runOptions.mainLaneAfter.catch(() => {}); // (its failure is the caller's to report)
-        for (let id = take(); id >= 0; id = take()) results[id] = await runTask(strip(tasks[id]), onBytes);
+        for (let id = take(); id >= 0; id = take()) {
+          results[id] = await runTask(strip(tasks[id]), onBytes);
+          runOptions.onResult?.(id, results[id]);
+        }
       };
       const workerLane = (w: Worker) =>
         new Promise<void>((resolve, reject) => {
@@ -82,6 +87,7 @@ export function createPool(workers: number, options: { mainLane: boolean }): Poo
             if ('progress' in msg) return onBytes(msg.progress);
             if (msg.ok) {
               results[msg.id] = msg.result;
+              runOptions.onResult?.(msg.id, msg.result);
               return feed();
             }
             const cause = msg.chain.slice(1).reduceRight<Error | undefined>((c, m) => new Error(m, c ? { cause: c } : undefined), undefined);

@@ -218,6 +218,31 @@ describe.skipIf(!hasSha256sum)('a first build hashes new inputs in the pass that
     for (const f of recordedInputs(ws, ['x', 'y'])) expect(f.sha256, f.path).toBe(sha256sum(join(ws, f.path)));
   });
 
+  it('when one dataset fails, the hashes learnt measuring the others are kept, and the next build takes those from the cache', { timeout: 120_000 }, async () => {
+    const ws = tempDir('lacuna-inpass-fail-');
+    mkdirSync(join(ws, 'audits'));
+    mkdirSync(join(ws, 'data'));
+    const rng = createRandom(14);
+    writeNpy(join(ws, 'data', 'good.npy'), new Float32Array(8 * 300).map(() => (rng.next() < 0.2 ? 1 : 0)), [8, 300]);
+    const bad = join(ws, 'data', 'bad.npy');
+    writeNpy(bad, new Float32Array(8 * 300).map(() => (rng.next() < 0.2 ? 1 : 0)), [8, 300]);
+    const whole = readFileSync(bad);
+    writeFileSync(bad, whole.subarray(0, whole.length - 100)); // cut short: its header promises more
+    writeFileSync(
+      join(ws, 'audits', 'a.md'),
+      `---\naudit: a\ntitle: Fail\nbin_ms: 10\nmin_bins: 50\nbootstrap: { resamples: 100, level: 0.9, method: percentile, seed: 1 }\ndatasets:\n  - { id: good, path: ../data/good.npy, month: 2026-01 }\n  - { id: bad, path: ../data/bad.npy, month: 2026-02 }\n---\n`,
+    );
+    const err = await build(ws, { workers: '1' }).then(() => null, (e: Error) => e);
+    expect(err, 'the cut file must fail the build').not.toBeNull();
+    const index = JSON.parse(readFileSync(join(ws, '.lacuna-cache', 'hashes.json'), 'utf8')) as Record<string, { sha256: string }>;
+    expect(Object.keys(index)).toEqual(['data/good.npy']);
+    expect(index['data/good.npy'].sha256).toBe(sha256sum(join(ws, 'data', 'good.npy')));
+    writeFileSync(bad, whole);
+    const again = await build(ws, { workers: '1' });
+    expect(again.computed).toBe(1);
+    expect(again.hashed).toEqual({ first: 0, inPass: whole.length, reread: 0 });
+  });
+
   it('a file that grows while its dataset is read is refused, naming it, and its hash is not recorded', { timeout: 120_000 }, async () => {
     const ws = tempDir('lacuna-inpass-grow-');
     mkdirSync(join(ws, 'audits'));
