@@ -6,13 +6,15 @@
  *   differ in lightness as well as hue (dark indigo next to light ochre), so two groups stay
  *   apart in greyscale print; and colour never carries meaning alone: every series also has a
  *   point shape and a dash pattern (SHAPES, DASHES), and a name in a legend or label.
- * - Type: the pages' sans-serif stack (`--sans` in `src/report/style.css`), at sizes that stay
- *   at least 10 CSS px when a chart is scaled down to a 420 px phone column (see CHART_WIDTH).
+ * - Type: one sans-serif stack (FONT) for the charts and the pages (`--sans` in
+ *   `src/report/style.css` is `var(--chart-font)`), at sizes that stay at least 10 CSS px when a
+ *   chart is scaled down to a 420 px phone column (see CHART_WIDTH).
  * - Marks: estimates are diamonds, intervals are bars with short end caps, grids are dotted
  *   hairlines like the pages' table rules, axes have no box.
  *
- * `cssCustomProperties()` gives the same values as CSS custom properties (`--chart-…`) for a
- * page that wants legends or captions in the charts' colours.
+ * `cssCustomProperties()` gives the same values as CSS custom properties (`--chart-…`); the
+ * report's stylesheet is written with them first (src/report/assets.ts) and takes its ink and
+ * sans-serif type from them.
  */
 import { AXIS_NUMBER_FORMAT } from '../format/number.ts';
 

@@ -4,11 +4,12 @@
  * needed), Lacuna's stylesheet and the small script that starts the charts. Pages link them with
  * relative paths; nothing is fetched from the network.
  */
-import { copyFile, mkdir, rename } from 'node:fs/promises';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { copyFile, mkdir, readFile, rename, writeFile } from 'node:fs/promises';
 import { InternalError } from '../errors.ts';
+import { cssCustomProperties } from '../charts/theme.ts';
 
 /** Names of the shared files under `<out>/assets/`. */
 export const ASSET_FILES = { vega: 'vega.min.js', css: 'lacuna.css', client: 'lacuna-charts.js' } as const;
@@ -50,7 +51,9 @@ export async function copyAssets(outDir: string): Promise<void> {
   for (const [name, src] of Object.entries(assetSources())) {
     const tmp = join(dir, `.${name}.tmp-${process.pid}`);
     try {
-      await copyFile(src, tmp);
+      // The stylesheet opens with the chart theme's values, which it uses for its ink and type.
+      if (name === ASSET_FILES.css) await writeFile(tmp, `:root { ${cssCustomProperties()} }\n${await readFile(src, 'utf8')}`);
+      else await copyFile(src, tmp);
     } catch (err) {
       throw new InternalError(`asset ${name} could not be copied from ${src}`, err);
     }

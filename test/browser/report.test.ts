@@ -14,6 +14,7 @@ import { chromium } from 'playwright-core';
 import type { BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { buildFixtureSite } from './fixture-site.ts';
+import { FONT, PALETTE } from '../../src/charts/theme.ts';
 import type { FixtureSite } from './fixture-site.ts';
 
 const CHROMIUM = ['/usr/lib/chromium/chromium', '/usr/bin/chromium'].find((p) => existsSync(p));
@@ -80,6 +81,22 @@ describe.skipIf(!CHROMIUM)('report pages in Chromium (file://)', () => {
     expect(log.requests.length).toBeGreaterThan(0);
     expect(offMachine(log.requests)).toEqual([]);
     await page.close();
+  });
+
+  it('pages take their ink and sans-serif type from the chart theme (one source, src/charts/theme.ts)', async () => {
+    const page = await context.newPage();
+    await page.goto(pathToFileURL(join(site.audits[0].versionDir, 'index.html')).href, { waitUntil: 'load' });
+    const got = await page.evaluate(() => {
+      const root = getComputedStyle(document.documentElement);
+      const probe = document.createElement('span');
+      probe.style.fontFamily = 'var(--sans)';
+      document.body.append(probe);
+      return { color: root.color, ink: root.getPropertyValue('--ink').trim(), font: getComputedStyle(probe).fontFamily };
+    });
+    await page.close();
+    const hex = PALETTE.ink.slice(1).match(/../g)!.map((h) => parseInt(h, 16));
+    expect(got.color).toBe(`rgb(${hex.join(', ')})`);
+    expect(got.font.replace(/\s+/g, ' ')).toBe(FONT.replace(/\s+/g, ' '));
   });
 
   it('opens the drift, comparison, audit and site pages cleanly, and latest/ forwards to the newest version', async () => {
