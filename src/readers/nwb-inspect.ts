@@ -5,8 +5,9 @@
  * 1. the header-only checks the build makes (unit and bin counts against the memory budget,
  *    the id column's type), through the same functions, so the messages are the same;
  * 2. for a units table, the ragged index validated in full (O(units) numbers, within the budget
- *    checked first), with the build's function and message — spike times themselves are not
- *    read, so a spike past the budget (e.g. at 10¹⁵ s) is found by the build only;
+ *    checked first), with the build's function and message (the spike times themselves are then
+ *    read by `inspectNwb` through the build's own open, so a spike past the budget, e.g. at
+ *    10¹⁵ s, is refused by check too);
  * 3. a probe read of the first element of every dataset the build will read. HDF5 external
  *    storage shows only when a read opens its raw file (hdf5-guard.ts), and a damaged first
  *    chunk only when it is decoded; one element per dataset finds both at the cost of one

@@ -90,8 +90,9 @@ export async function openNwbActivity(path: string, opts: { binMs: number; serie
 }
 
 /**
- * What `lacuna check` reports about an NWB file, from headers and attributes only (no spike
- * times or samples are read): the chosen candidate's shape and dtype, and every candidate as
+ * What `lacuna check` reports about an NWB file, from headers and attributes (no samples of a
+ * series are read; a units table's spike times are, in one pass, as the build reads them at
+ * open, since its bin count depends on them): the chosen candidate's shape and dtype, and every candidate as
  * `parts` (name = HDF5 path, dtype = `<neurodata_type> <dtype>`). Units tables have shape
  * [units] — their bin count depends on the spike times. `path` is `relPath`, as the other
  * readers' inspections give it. Same InputErrors as opening; also every refusal the build would
@@ -106,6 +107,11 @@ export async function inspectNwb(path: string, relPath: string, series: string |
     const c = choose(file, relPath, series);
     refuseEndForSeries(c, relPath, recordingEndS);
     checkCandidate(file, c, binMs, relPath);
+    // A units table's bin count depends on its spike times: read them as the build does at open
+    // (one pass in bounded slices, O(units + intervals) memory), so a spike far past the
+    // recording (e.g. at 10^15 s) is refused by check with the build's message. The returned
+    // source is dropped; the file is closed below.
+    if (c.kind === 'units') openUnitsTable(file, c.path, { path, relPath, binMs, recordingEndS });
     const { candidates } = findCandidates(file);
     return {
       path: relPath,

@@ -117,6 +117,9 @@ with h5py.File(os.path.join(d, 'string-ids.nwb'), 'w') as f:
     units(f, np.array([b'<img src=x onerror=alert(1)>', b'u1', b'\x1b[31mRED\x1b[0m'], dtype='S32'))
 with h5py.File(os.path.join(d, 'vlen-ids.nwb'), 'w') as f:
     units(f, np.array(['a', 'b', 'c'], dtype=h5py.string_dtype()))
+with h5py.File(os.path.join(d, 'far-spike.nwb'), 'w') as f:
+    u = f.create_group('units'); u.attrs['neurodata_type'] = 'Units'
+    u['spike_times'] = np.array([0.5, 1.5, 1e15]); u['spike_times_index'] = np.array([2, 3]); u['id'] = np.array([1, 2])
 with h5py.File(os.path.join(d, 'long-series.nwb'), 'w') as f:
     g = f.create_group('acquisition/trace'); g.attrs['neurodata_type'] = 'RoiResponseSeries'
     g.create_dataset('starting_time', data=0.0).attrs['rate'] = 1000.0
@@ -162,6 +165,11 @@ describe.skipIf(!hasH5py)('hostile NWB files written by h5py at test time', { ti
 
   it('refuses 10^8 declared units from the header, before reading a column', async () => {
     await expectRefused(root, join(files, 'many-units.nwb'), [/\/units\/spike_times_index/, /100000000 units/, /allowed \(a quarter of this machine/, /split the file/]);
+  });
+
+  it('refuses a spike at 10^15 s in check as in build, with the same message (check reads a units table\'s spike times)', async () => {
+    // 10^15 s in 10 ms bins is 10^17 bins: over the memory budget and the bin limit.
+    await expectRefused(root, join(files, 'far-spike.nwb'), [/\/units\/spike_times/, /bins/]);
   });
 
   it('refuses a series whose starting_time and rate make 10^9 bins of 10 ms, from the header', async () => {
