@@ -18,12 +18,15 @@
  * No pass/fail: it prints figures. `--profile DIR` adds `--cpu-prof --cpu-prof-dir DIR` to the
  * first build; `--node-flags "…"` replaces the `#!` line's flags (to compare; "" for none).
  */
-import { spawn, spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, rmSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { makeDemo } from '../src/demo/scenario.ts';
+import { lacunaNodeFlags, timedChild } from './bench-timed.ts';
+
+export { lacunaNodeFlags } from './bench-timed.ts';
 
 const SCRIPT = fileURLToPath(import.meta.url);
 const REPO = resolve(dirname(SCRIPT), '..');
@@ -58,54 +61,8 @@ export interface DemoBenchResult {
   loadAfter: number[];
 }
 
-/** The V8 flags `lacuna` runs with: those on bin/lacuna.mjs's `#!/usr/bin/env -S node …` line. */
-export function lacunaNodeFlags(): string[] {
-  const shebang = readFileSync(join(REPO, 'bin', 'lacuna.mjs'), 'utf8').split('\n')[0];
-  return shebang.replace(/^#!.*?\bnode\b/, '').split(/\s+/).filter(Boolean);
-}
-
-/** Run `node <args>` under /usr/bin/time -v (when present); resolve with its figures and stdout. */
-function timedNode(args: string[]): Promise<{ wallMs: number; cpuMs: number | null; peakRssKiB: number | null; stdout: string }> {
-  const useTime = existsSync('/usr/bin/time');
-  const [file, argv] = useTime ? ['/usr/bin/time', ['-v', process.execPath, ...args]] : [process.execPath, args];
-  return new Promise((done, fail) => {
-    const t0 = performance.now();
-    const child = spawn(file, argv, { stdio: ['ignore', 'pipe', 'pipe'], cwd: REPO });
-    let stdout = '';
-    let stderr = '';
-    child.stdout.on('data', (d) => (stdout += d));
-    child.stderr.on('data', (d) => (stderr += d));
-    let polled = 0;
-    const poll = useTime
-      ? null
-      : setInterval(() => {
-          try {
-            const m = /VmHWM:\s+(\d+) kB/.exec(readFileSync(`/proc/${child.pid}/status`, 'utf8'));
-            if (m) polled = Math.max(polled, Number(m[1]));
-          } catch {
-            /* the process has just ended */
-          }
-        }, 20);
-    child.on('error', fail);
-    child.on('close', (code) => {
-      const wallMs = performance.now() - t0;
-      if (poll) clearInterval(poll);
-      if (code !== 0) return fail(new Error(`node ${args.join(' ')} exited with ${code}:\n${stderr}`));
-      const rss = /Maximum resident set size \(kbytes\): (\d+)/.exec(stderr);
-      const user = /User time \(seconds\): ([\d.]+)/.exec(stderr);
-      const sys = /System time \(seconds\): ([\d.]+)/.exec(stderr);
-      done({
-        wallMs,
-        cpuMs: user && sys ? (Number(user[1]) + Number(sys[1])) * 1000 : null,
-        peakRssKiB: useTime ? (rss ? Number(rss[1]) : null) : polled || null,
-        stdout,
-      });
-    });
-  });
-}
-
 async function build(flags: string[], workspace: string, out: string): Promise<DemoRun> {
-  const r = await timedNode([...flags, join(REPO, 'scripts', 'bench-child.mjs'), workspace, out]);
+  const r = await timedChild(process.execPath, [...flags, join(REPO, 'scripts', 'bench-child.mjs'), workspace, out]);
   const o = JSON.parse(r.stdout.trim().split('\n').pop()!) as Omit<DemoRun, 'wallMs' | 'cpuMs' | 'peakRssKiB'>;
   return { wallMs: r.wallMs, cpuMs: r.cpuMs, peakRssKiB: r.peakRssKiB, timings: o.timings, startupMs: o.startupMs, computed: o.computed, compiled: o.compiled };
 }

@@ -26,13 +26,14 @@
  *      peak RSS; and the estimates of both side by side (they must agree: same work).
  * No pass/fail: it prints figures. `--profile DIR` adds `--cpu-prof --cpu-prof-dir DIR` to the build.
  */
-import { spawn, spawnSync } from 'node:child_process';
+import { spawnSync } from 'node:child_process';
 import { closeSync, existsSync, mkdirSync, openSync, readFileSync, readSync, renameSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
 import { cpus, loadavg, tmpdir, totalmem } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createRandom, type Random } from '../src/stats/random.ts';
 import { npyHeader } from '../src/readers/npy-write.ts';
+import { lacunaNodeFlags, timedChild, type Run } from './bench-timed.ts';
 
 const SCRIPT = fileURLToPath(import.meta.url);
 const REPO = resolve(dirname(SCRIPT), '..');
@@ -118,53 +119,7 @@ Seeded synthetic data written by scripts/bench.ts.
 `;
 }
 
-// ---------------------------------------------------------------------------- 3. timed children
-interface Run {
-  wallMs: number;
-  /** User + system CPU time (from /usr/bin/time; null without it). */
-  cpuMs: number | null;
-  peakRssKiB: number | null;
-  stdout: string;
-}
-
-function timedChild(cmd: string, args: string[]): Promise<Run> {
-  const useTime = existsSync('/usr/bin/time');
-  const [file, argv] = useTime ? ['/usr/bin/time', ['-v', cmd, ...args]] : [cmd, args];
-  return new Promise((resolvePromise, reject) => {
-    const t0 = performance.now();
-    const child = spawn(file, argv, { stdio: ['ignore', 'pipe', 'pipe'], cwd: REPO });
-    let stdout = '';
-    let stderr = '';
-    child.stdout.on('data', (d) => (stdout += d));
-    child.stderr.on('data', (d) => (stderr += d));
-    let polled = 0;
-    const poll = useTime
-      ? null
-      : setInterval(() => {
-          try {
-            const m = /VmHWM:\s+(\d+) kB/.exec(readFileSync(`/proc/${child.pid}/status`, 'utf8'));
-            if (m) polled = Math.max(polled, Number(m[1]));
-          } catch {
-            /* the process has just ended */
-          }
-        }, 20);
-    child.on('error', reject);
-    child.on('close', (code) => {
-      const wallMs = performance.now() - t0;
-      if (poll) clearInterval(poll);
-      if (code !== 0) {
-        const own = stderr.split('\n').filter((l) => !l.startsWith('\t') && !l.startsWith('Command exited'));
-        return reject(new Error(`${cmd} ${args.join(' ')} exited with ${code}:\n${own.join('\n')}`));
-      }
-      const m = /Maximum resident set size \(kbytes\): (\d+)/.exec(stderr);
-      const user = /User time \(seconds\): ([\d.]+)/.exec(stderr);
-      const sys = /System time \(seconds\): ([\d.]+)/.exec(stderr);
-      const cpuMs = user && sys ? (Number(user[1]) + Number(sys[1])) * 1000 : null;
-      resolvePromise({ wallMs, cpuMs, peakRssKiB: useTime ? (m ? Number(m[1]) : null) : polled || null, stdout });
-    });
-  });
-}
-
+// ---------------------------------------------------------------------------- 3. timed children (scripts/bench-timed.ts)
 const lastJson = <T>(text: string): T => JSON.parse(text.trim().split('\n').pop()!) as T;
 const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor((xs.length - 1) / 2)];
 const mib = (b: number) => `${(b / 2 ** 20).toFixed(0)} MiB`;
@@ -233,8 +188,7 @@ type RefOut = {
 };
 // The V8 flags `lacuna` runs with: those on bin/lacuna.mjs's `#!/usr/bin/env -S node …` line
 // (the npm scripts pass the same), unless `--node-flags "…"` says otherwise (to compare).
-const shebang = readFileSync(join(REPO, 'bin', 'lacuna.mjs'), 'utf8').split('\n')[0];
-const nodeFlags = (process.argv.includes('--node-flags') ? option('node-flags', '') : shebang.replace(/^#!.*?\bnode\b/, '')).split(/\s+/).filter(Boolean);
+const nodeFlags = process.argv.includes('--node-flags') ? option('node-flags', '').split(/\s+/).filter(Boolean) : lacunaNodeFlags();
 const builds: { run: Run; out: BuildOut }[] = [];
 const alone: { run: Run; out: BuildOut }[] = [];
 const refs: { run: Run; out: RefOut }[] = [];
