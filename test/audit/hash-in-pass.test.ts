@@ -36,6 +36,22 @@ function tempDir(prefix: string): string {
   return d;
 }
 
+/** An empty workspace (audits/, data/) in a new temporary folder. */
+function emptyWorkspace(prefix: string): string {
+  const ws = tempDir(prefix);
+  mkdirSync(join(ws, 'audits'));
+  mkdirSync(join(ws, 'data'));
+  return ws;
+}
+
+/** Write audits/<audit>.md listing `rows` (YAML flow maps, one a dataset), 10 ms bins. */
+function writeManifest(ws: string, audit: string, rows: string[], head = 'bin_ms: 10\nmin_bins: 50'): void {
+  writeFileSync(
+    join(ws, 'audits', `${audit}.md`),
+    `---\naudit: ${audit}\ntitle: Audit ${audit}\n${head}\nbootstrap: { resamples: 100, level: 0.9, method: percentile, seed: 1 }\ndatasets:\n${rows.map((r) => `  - ${r}`).join('\n')}\n---\n`,
+  );
+}
+
 const build = (ws: string, extra: { rehash?: boolean; workers?: string; splitMinBytes?: number; audit?: string } = {}): Promise<BuildSummary> =>
   buildWorkspace({ workspace: ws, out: join(ws, '_site'), progress: quiet, workers: extra.workers ?? '2', rehash: extra.rehash, splitMinBytes: extra.splitMinBytes, audit: extra.audit });
 
@@ -141,22 +157,14 @@ describe.skipIf(!hasSha256sum)('a first build hashes new inputs in the pass that
   });
 
   it('npy and spike CSV: every byte read once (the taps read nothing themselves), split over two lanes or not', { timeout: 120_000 }, async () => {
-    const ws = tempDir('lacuna-inpass-once-');
-    mkdirSync(join(ws, 'audits'));
-    mkdirSync(join(ws, 'data'));
+    const ws = emptyWorkspace('lacuna-inpass-once-');
     const rng = createRandom(11);
     writeNpy(join(ws, 'data', 'a.npy'), new Float32Array(40 * 500).map(() => (rng.next() < 0.2 ? 1 + rng.int(3) : 0)), [40, 500]);
     const lines = ['unit,time'];
     for (let u = 0; u < 6; u++) for (let k = 0; k < 40; k++) lines.push(`u${u},${(rng.next() * 5).toFixed(4)}`);
     writeFileSync(join(ws, 'data', 'b.csv'), `${lines.join('\n')}\n`);
-    writeFileSync(
-      join(ws, 'audits', 'a.md'),
-      `---\naudit: a\ntitle: Once\nbin_ms: 10\nmin_bins: 50\nbootstrap: { resamples: 100, level: 0.9, method: percentile, seed: 1 }\ndatasets:\n  - { id: a, path: ../data/a.npy, month: 2026-01 }\n---\n`,
-    );
-    writeFileSync(
-      join(ws, 'audits', 'b.md'),
-      `---\naudit: b\ntitle: Once, spikes\nbin_ms: 10\nmin_bins: 50\nbootstrap: { resamples: 100, level: 0.9, method: percentile, seed: 1 }\ndatasets:\n  - { id: b, path: ../data/b.csv, format: spikes, month: 2026-01 }\n---\n`,
-    );
+    writeManifest(ws, 'a', ['{ id: a, path: ../data/a.npy, month: 2026-01 }']);
+    writeManifest(ws, 'b', ['{ id: b, path: ../data/b.csv, format: spikes, month: 2026-01 }']);
     const first = await build(ws, { workers: '1' });
     expect(first.hashed).toEqual({ first: 0, inPass: statSync(join(ws, 'data', 'a.npy')).size + statSync(join(ws, 'data', 'b.csv')).size, reread: 0 });
     for (const f of recordedInputs(ws, ['a', 'b'])) expect(f.sha256, f.path).toBe(sha256sum(join(ws, f.path)));
@@ -175,15 +183,10 @@ describe.skipIf(!hasSha256sum)('a first build hashes new inputs in the pass that
   });
 
   it('a touched file (same size) is hashed first and its dataset comes from the cache; a resized one is hashed in the pass', { timeout: 120_000 }, async () => {
-    const ws = tempDir('lacuna-inpass-touch-');
-    mkdirSync(join(ws, 'audits'));
-    mkdirSync(join(ws, 'data'));
+    const ws = emptyWorkspace('lacuna-inpass-touch-');
     const rng = createRandom(12);
     for (const n of ['a', 'b']) writeNpy(join(ws, 'data', `${n}.npy`), new Float32Array(8 * 300).map(() => (rng.next() < 0.2 ? 1 : 0)), [8, 300]);
-    writeFileSync(
-      join(ws, 'audits', 'a.md'),
-      `---\naudit: a\ntitle: Touch\nbin_ms: 10\nmin_bins: 50\nbootstrap: { resamples: 100, level: 0.9, method: percentile, seed: 1 }\ndatasets:\n  - { id: a, path: ../data/a.npy, month: 2026-01 }\n  - { id: b, path: ../data/b.npy, month: 2026-02 }\n---\n`,
-    );
+    writeManifest(ws, 'a', ['{ id: a, path: ../data/a.npy, month: 2026-01 }', '{ id: b, path: ../data/b.npy, month: 2026-02 }']);
     await build(ws);
     const a = join(ws, 'data', 'a.npy');
     const b = join(ws, 'data', 'b.npy');
@@ -203,15 +206,12 @@ describe.skipIf(!hasSha256sum)('a first build hashes new inputs in the pass that
   });
 
   it('a file two datasets read is hashed once, first, and not by both passes', { timeout: 120_000 }, async () => {
-    const ws = tempDir('lacuna-inpass-shared-');
-    mkdirSync(join(ws, 'audits'));
-    mkdirSync(join(ws, 'data'));
+    const ws = emptyWorkspace('lacuna-inpass-shared-');
     const rng = createRandom(13);
     writeNpy(join(ws, 'data', 's.npy'), new Float32Array(8 * 300).map(() => (rng.next() < 0.2 ? 1 : 0)), [8, 300]);
     writeNpy(join(ws, 'data', 'o.npy'), new Float32Array(8 * 300).map(() => (rng.next() < 0.2 ? 1 : 0)), [8, 300]);
-    const head = `bin_ms: 10\nmin_bins: 50\nbootstrap: { resamples: 100, level: 0.9, method: percentile, seed: 1 }\ndatasets:\n`;
-    writeFileSync(join(ws, 'audits', 'x.md'), `---\naudit: x\ntitle: X\n${head}  - { id: s, path: ../data/s.npy, month: 2026-01 }\n  - { id: o, path: ../data/o.npy, month: 2026-02 }\n---\n`);
-    writeFileSync(join(ws, 'audits', 'y.md'), `---\naudit: y\ntitle: Y\n${head}  - { id: s, path: ../data/s.npy, month: 2026-01 }\n---\n`);
+    writeManifest(ws, 'x', ['{ id: s, path: ../data/s.npy, month: 2026-01 }', '{ id: o, path: ../data/o.npy, month: 2026-02 }']);
+    writeManifest(ws, 'y', ['{ id: s, path: ../data/s.npy, month: 2026-01 }']);
     const r = await build(ws);
     const s = statSync(join(ws, 'data', 's.npy')).size;
     expect(r.hashed).toEqual({ first: s, inPass: statSync(join(ws, 'data', 'o.npy')).size, reread: 0 });
@@ -219,19 +219,14 @@ describe.skipIf(!hasSha256sum)('a first build hashes new inputs in the pass that
   });
 
   it('when one dataset fails, the hashes learnt measuring the others are kept, and the next build takes those from the cache', { timeout: 120_000 }, async () => {
-    const ws = tempDir('lacuna-inpass-fail-');
-    mkdirSync(join(ws, 'audits'));
-    mkdirSync(join(ws, 'data'));
+    const ws = emptyWorkspace('lacuna-inpass-fail-');
     const rng = createRandom(14);
     writeNpy(join(ws, 'data', 'good.npy'), new Float32Array(8 * 300).map(() => (rng.next() < 0.2 ? 1 : 0)), [8, 300]);
     const bad = join(ws, 'data', 'bad.npy');
     writeNpy(bad, new Float32Array(8 * 300).map(() => (rng.next() < 0.2 ? 1 : 0)), [8, 300]);
     const whole = readFileSync(bad);
     writeFileSync(bad, whole.subarray(0, whole.length - 100)); // cut short: its header promises more
-    writeFileSync(
-      join(ws, 'audits', 'a.md'),
-      `---\naudit: a\ntitle: Fail\nbin_ms: 10\nmin_bins: 50\nbootstrap: { resamples: 100, level: 0.9, method: percentile, seed: 1 }\ndatasets:\n  - { id: good, path: ../data/good.npy, month: 2026-01 }\n  - { id: bad, path: ../data/bad.npy, month: 2026-02 }\n---\n`,
-    );
+    writeManifest(ws, 'a', ['{ id: good, path: ../data/good.npy, month: 2026-01 }', '{ id: bad, path: ../data/bad.npy, month: 2026-02 }']);
     const err = await build(ws, { workers: '1' }).then(() => null, (e: Error) => e);
     expect(err, 'the cut file must fail the build').not.toBeNull();
     const index = JSON.parse(readFileSync(join(ws, '.lacuna-cache', 'hashes.json'), 'utf8')) as Record<string, { sha256: string }>;
@@ -244,17 +239,12 @@ describe.skipIf(!hasSha256sum)('a first build hashes new inputs in the pass that
   });
 
   it('a file that grows while its dataset is read is refused, naming it, and its hash is not recorded', { timeout: 120_000 }, async () => {
-    const ws = tempDir('lacuna-inpass-grow-');
-    mkdirSync(join(ws, 'audits'));
-    mkdirSync(join(ws, 'data'));
+    const ws = emptyWorkspace('lacuna-inpass-grow-');
     const csv = join(ws, 'data', 'g.csv');
     const rows = ['unit,time'];
     for (let k = 0; k < 200; k++) rows.push(`u${k % 3},${(k * 0.02).toFixed(3)}`);
     writeFileSync(csv, `${rows.join('\n')}\n`);
-    writeFileSync(
-      join(ws, 'audits', 'g.md'),
-      `---\naudit: g\ntitle: Grow\nbin_ms: 10\nmin_bins: 50\nbootstrap: { resamples: 100, level: 0.9, method: percentile, seed: 1 }\ndatasets:\n  - { id: g, path: ../data/g.csv, format: spikes, month: 2026-01 }\n---\n`,
-    );
+    writeManifest(ws, 'g', ['{ id: g, path: ../data/g.csv, format: spikes, month: 2026-01 }']);
     // Grow the file between the plan (its size) and the read: the hook runs as the build starts.
     const progress = createProgress({ quiet: true });
     const step = progress.step.bind(progress);
@@ -273,9 +263,7 @@ describe.skipIf(!hasSha256sum)('a first build hashes new inputs in the pass that
 describe.skipIf(!hasSha256sum || !hasScipy)('npz members and an NWB file, written by other software', () => {
   if (!hasScipy) console.warn(`[lacuna tests] skipping the npz read-through check: ${pythonStatus.reason}`);
   it('numpy’s savez and savez_compressed, and the NWB reference software’s RoiResponseSeries: sha256sum’s digests', { timeout: 120_000 }, async () => {
-    const ws = tempDir('lacuna-inpass-npz-');
-    mkdirSync(join(ws, 'audits'));
-    mkdirSync(join(ws, 'data'));
+    const ws = emptyWorkspace('lacuna-inpass-npz-');
     runPython(
       `rng = np.random.default_rng(5)
 m = (rng.random((6, 400)) < 0.2).astype(np.float32)
@@ -288,14 +276,8 @@ print(json.dumps(True))`,
     const nwb = existsSync(roi);
     if (nwb) copyFileSync(roi, join(ws, 'data', 'roi.nwb'));
     else console.warn('[lacuna tests] ../shared/data/nwb/roi-response-series.nwb is absent: the NWB part of the read-through check is skipped');
-    const rows = [
-      '  - { id: s, path: ../data/stored.npz, format: npz, member: activity, month: 2026-01 }',
-      '  - { id: d, path: ../data/deflated.npz, format: npz, member: activity, month: 2026-02 }',
-    ];
-    writeFileSync(join(ws, 'audits', 'z.md'), `---\naudit: z\ntitle: Zip\nbin_ms: 10\nmin_bins: 50\nbootstrap: { resamples: 100, level: 0.9, method: percentile, seed: 1 }\ndatasets:\n${rows.join('\n')}\n---\n`);
-    if (nwb) {
-      writeFileSync(join(ws, 'audits', 'n.md'), `---\naudit: n\ntitle: NWB\nbin_ms: 100\nmin_bins: 5\nbootstrap: { resamples: 100, level: 0.9, method: percentile, seed: 1 }\ndatasets:\n  - { id: r, path: ../data/roi.nwb, format: nwb, month: 2026-01 }\n---\n`);
-    }
+    writeManifest(ws, 'z', ['{ id: s, path: ../data/stored.npz, format: npz, member: activity, month: 2026-01 }', '{ id: d, path: ../data/deflated.npz, format: npz, member: activity, month: 2026-02 }']);
+    if (nwb) writeManifest(ws, 'n', ['{ id: r, path: ../data/roi.nwb, format: nwb, month: 2026-01 }'], 'bin_ms: 100\nmin_bins: 5');
     const first = await build(ws);
     expect(first.hashed.first).toBe(0);
     const inputs = recordedInputs(ws, nwb ? ['z', 'n'] : ['z']);
