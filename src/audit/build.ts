@@ -110,7 +110,7 @@ const PRELOAD_S = 0.7;
  * first range). That lane also reads the rest of the file for the hash once its range is done,
  * while this thread (another lane) may first load the render modules; the share evens the two
  * out: with P the pass's lane time, H the hash's and L the load's, over W lanes,
- * s·P + H = L + (1 − s)·P/(W − 1). At 381 MiB with the load it is about 0.67; at 4 GiB 0.40.
+ * s·P + H = L + (1 − s)·P/(W − 1). On two lanes: about 0.66 at 381 MiB with the load, 0.39 at 4 GiB.
  */
 export function hashingLaneShare(bytes: number, lanes: number, preloading: boolean): number {
   const P = PASS_S_PER_BYTE * bytes;
@@ -282,9 +282,9 @@ async function buildWithPool(
   // render.
   const preload = !shard && toHash.length > 0 && pool.lanes >= 2 ? loadRenderModules() : null;
   preload?.catch(() => {}); // a failure to load is reported when the render awaits the modules
-  const record = (hashed: { file: FileToHash; sha256: string }[]) => {
-    recordHashes(workspace, hashed, { fragment: !!shard });
-    for (const { file, sha256 } of hashed) provenance.set(file.rel, { path: file.rel, sha256, bytes: file.size });
+  const record = (learnt: { file: FileToHash; sha256: string }[]) => {
+    recordHashes(workspace, learnt, { fragment: !!shard });
+    for (const { file, sha256 } of learnt) provenance.set(file.rel, { path: file.rel, sha256, bytes: file.size });
   };
   // Files hashed on their own first: unchanged-size files (their dataset may still be cached)
   // and files that more than one dataset reads.
@@ -346,9 +346,9 @@ async function buildWithPool(
       }
     }
     split = parts.size;
-    for (const [owner, { states, hashed }] of parts) {
+    for (const [owner, { states, hashed: learnt }] of parts) {
       // The measures' intervals of the merged dataset are spread over the lanes too.
-      const job = withHashes(todo[owner], hashed);
+      const job = withHashes(todo[owner], learnt);
       results[todoIndex[owner]] = await finishSplit(job, states, async (jobs) => (await pool.run(jobs.map((job) => ({ kind: 'summarise' as const, job })), () => {})) as MeasureResult[]);
     }
     for (const h of hashedInPass) {

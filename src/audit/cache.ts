@@ -208,7 +208,7 @@ function readHashIndex(workspace: string): { entries: Record<string, HashEntry>;
 export function recordHashes(workspace: string, hashed: { file: FileToHash; sha256: string }[], options: { fragment?: boolean } = {}): void {
   // With nothing new, a plain build still folds what shards left, so fragments do not pile up.
   if (!hashed.length && (options.fragment || !existsSync(fragmentDir(workspace)) || !readdirSync(fragmentDir(workspace)).length)) return;
-  const fresh: Record<string, HashEntry> = {};
+  const fresh: Record<string, HashEntry> = Object.create(null); // (a path may be any string, even "__proto__")
   for (const { file, sha256 } of hashed) fresh[file.rel] = hashEntry(file.rel, { ...file, sha256 });
   if (options.fragment) {
     atomicWriteJson(join(fragmentDir(workspace), `${process.pid}-${Date.now()}-${Math.random().toString(36).slice(2)}.json`), fresh);
