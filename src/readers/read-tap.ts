@@ -91,20 +91,20 @@ class HashTap {
   /** Hash the rest of the file from where the readers' in-order reads stopped. */
   async finish(): Promise<TappedHash> {
     const start = this.cursor;
-    if (start > this.size) throw this.changed(`${start} bytes were read`);
+    if (start > this.size) throw this.changed(`planned as ${this.size} bytes, ${start} were read`);
     const fh = await open(this.path, 'r');
     try {
       if (this.stamp) {
         // The bytes hashed and measured are those planned: same file, not modified since.
         const st = await fh.stat();
-        if (st.ino !== this.stamp.ino) throw this.changed('another file in its place');
-        if (st.mtimeMs !== this.stamp.mtimeMs || st.ctimeMs !== this.stamp.ctimeMs) throw this.changed('a new modification time');
+        if (st.ino !== this.stamp.ino) throw this.changed('replaced by another file');
+        if (st.mtimeMs !== this.stamp.mtimeMs || st.ctimeMs !== this.stamp.ctimeMs) throw this.changed('modified since the build planned to read it');
       }
       const buf = new Uint8Array(Math.max(1, Math.min(4 << 20, this.size - start)));
       for (let pos = start; ; ) {
         const { bytesRead } = await fh.read(buf, 0, buf.length, pos);
         if (bytesRead === 0) break;
-        if (pos + bytesRead > this.size) throw this.changed(`more than ${this.size} bytes`);
+        if (pos + bytesRead > this.size) throw this.changed(`planned as ${this.size} bytes, found more`);
         this.hash.update(buf.subarray(0, bytesRead));
         pos += bytesRead;
         this.cursor = pos;
@@ -112,12 +112,12 @@ class HashTap {
     } finally {
       await fh.close();
     }
-    if (this.cursor !== this.size) throw this.changed(`${this.cursor} bytes`);
+    if (this.cursor !== this.size) throw this.changed(`planned as ${this.size} bytes, found ${this.cursor}`);
     return { sha256: this.hash.digest('hex'), bytes: this.size, reread: this.size - start + this.filled };
   }
 
-  private changed(found: string): InputError {
-    return new InputError(`changed while it was being read: planned as ${this.size} bytes, found ${found}; run the build again`, { file: this.relPath, where: 'file' });
+  private changed(what: string): InputError {
+    return new InputError(`changed while it was being read (${what}); run the build again`, { file: this.relPath, where: 'file' });
   }
 }
 
