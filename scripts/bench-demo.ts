@@ -24,9 +24,7 @@ import { loadavg, tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { makeDemo } from '../src/demo/scenario.ts';
-import { lacunaNodeFlags, timedChild } from './bench-timed.ts';
-
-export { lacunaNodeFlags } from './bench-timed.ts';
+import { lacunaNodeFlags, lastJson, med, secs, timedChild } from './bench-timed.ts';
 
 const SCRIPT = fileURLToPath(import.meta.url);
 const REPO = resolve(dirname(SCRIPT), '..');
@@ -63,13 +61,10 @@ export interface DemoBenchResult {
 
 async function build(flags: string[], workspace: string, out: string): Promise<DemoRun> {
   const r = await timedChild(process.execPath, [...flags, join(REPO, 'scripts', 'bench-child.mjs'), workspace, out]);
-  const o = JSON.parse(r.stdout.trim().split('\n').pop()!) as Omit<DemoRun, 'wallMs' | 'cpuMs' | 'peakRssKiB'>;
+  const o = lastJson<Omit<DemoRun, 'wallMs' | 'cpuMs' | 'peakRssKiB'>>(r.stdout);
   return { wallMs: r.wallMs, cpuMs: r.cpuMs, peakRssKiB: r.peakRssKiB, timings: o.timings, startupMs: o.startupMs, computed: o.computed, compiled: o.compiled };
 }
 
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor((xs.length - 1) / 2)];
-const med = (xs: (number | null)[]) => (xs.some((x) => x === null) ? NaN : median(xs as number[]));
-const secs = (ms: number) => `${(ms / 1000).toFixed(2)} s`;
 const loads = (l: number[]) => l.map((x) => x.toFixed(2)).join(' ');
 
 function describe(runs: DemoRun[]): string {

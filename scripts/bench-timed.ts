@@ -57,6 +57,14 @@ export function timedChild(cmd: string, args: string[]): Promise<Run> {
   });
 }
 
+/** The JSON on a child's last line of output (bench-child.mjs prints one). */
+export const lastJson = <T>(text: string): T => JSON.parse(text.trim().split('\n').pop()!) as T;
+/** The median (the lower middle value of an even count). */
+export const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor((xs.length - 1) / 2)];
+/** The median, or NaN when any figure is missing (null: /usr/bin/time absent). */
+export const med = (xs: (number | null)[]) => (xs.some((x) => x === null) ? NaN : median(xs as number[]));
+export const secs = (ms: number) => `${(ms / 1000).toFixed(2)} s`;
+
 /** The V8 flags `lacuna` runs with: those on bin/lacuna.mjs's `#!/usr/bin/env -S node …` line. */
 export function lacunaNodeFlags(): string[] {
   const shebang = readFileSync(join(REPO, 'bin', 'lacuna.mjs'), 'utf8').split('\n')[0];

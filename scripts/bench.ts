@@ -33,7 +33,7 @@ import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { createRandom, type Random } from '../src/stats/random.ts';
 import { npyHeader } from '../src/readers/npy-write.ts';
-import { lacunaNodeFlags, timedChild, type Run } from './bench-timed.ts';
+import { lacunaNodeFlags, lastJson, med, median, secs, timedChild, type Run } from './bench-timed.ts';
 
 const SCRIPT = fileURLToPath(import.meta.url);
 const REPO = resolve(dirname(SCRIPT), '..');
@@ -120,10 +120,7 @@ Seeded synthetic data written by scripts/bench.ts.
 }
 
 // ---------------------------------------------------------------------------- 3. timed children (scripts/bench-timed.ts)
-const lastJson = <T>(text: string): T => JSON.parse(text.trim().split('\n').pop()!) as T;
-const median = (xs: number[]) => [...xs].sort((a, b) => a - b)[Math.floor((xs.length - 1) / 2)];
 const mib = (b: number) => `${(b / 2 ** 20).toFixed(0)} MiB`;
-const secs = (ms: number) => `${(ms / 1000).toFixed(2)} s`;
 
 function machine(): string {
   const cpuinfo = existsSync('/proc/cpuinfo') ? readFileSync('/proc/cpuinfo', 'utf8') : '';
@@ -215,7 +212,6 @@ for (let r = 0; r < repeat; r++) {
 }
 
 // 4. Figures.
-const med = (xs: (number | null)[]) => (xs.some((x) => x === null) ? NaN : median(xs as number[]));
 /** Read + hash + measures: the first build's hash stage (files hashed on their own) and compute stage. */
 const compute = med(builds.map((b) => b.out.timings.hash + b.out.timings.compute));
 const measuresAlone = med(alone.map((b) => b.out.timings.compute));
@@ -267,4 +263,4 @@ const iv = measures.population_sparseness.interval as [number, number];
 console.log(`population interval     [${iv[0].toFixed(5)}, ${iv[1].toFixed(5)}]     [${ref.interval.lower.toFixed(5)}, ${ref.interval.upper.toFixed(5)}] (different random streams)`);
 
 // The demo's first build and no-op rebuild, with the same flags and repeats (scripts/bench-demo.ts; `--no-demo` skips).
-if (!process.argv.includes('--no-demo')) await (await import('./bench-demo.ts')).benchDemo({ repeat, nodeFlags, print: (line) => console.log(line) });
+if (!process.argv.includes('--no-demo')) await (await import('./bench-demo.ts')).benchDemo({ repeat, nodeFlags });

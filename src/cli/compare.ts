@@ -1,15 +1,15 @@
 /** `lacuna compare AUDIT A B`: inputs, parameters and measures that changed between two versions. */
-import { readdirSync, readFileSync, statSync } from 'node:fs';
+import { readdirSync } from 'node:fs';
 import { join } from 'node:path';
 import { compareVersions, formatComparison } from '../audit/compare.ts';
 import { readRecord } from '../audit/versions.ts';
 import { InputError } from '../errors.ts';
 import { findManifests, MAX_MANIFEST_BYTES } from '../manifest/load.ts';
 import { parseManifestText } from '../manifest/parse.ts';
+import { readManifestBytes } from '../manifest/read-bounded.ts';
+import { TEXT_RULES } from '../manifest/schema.ts';
+import { isFolder } from './workspace.ts';
 import { safeTerminal, safeTerminalLine } from '../text/safe-terminal.ts';
-
-/** An audit name as the manifest schema allows it (so it names a folder inside records/). */
-const SLUG = /^[a-z0-9][a-z0-9-]{0,63}$/;
 
 /**
  * The audits a workspace knows: those with records, and those its manifests name (a manifest
@@ -18,7 +18,6 @@ const SLUG = /^[a-z0-9][a-z0-9-]{0,63}$/;
 async function knownAudits(workspace: string): Promise<string[]> {
   const names = new Set<string>();
   const records = join(workspace, 'records');
-  const isFolder = (p: string) => statSync(p, { throwIfNoEntry: false })?.isDirectory() ?? false;
   if (isFolder(records)) for (const a of readdirSync(records)) if (!a.startsWith('.') && isFolder(join(records, a))) names.add(a);
   let files: string[] = [];
   try {
@@ -28,10 +27,10 @@ async function knownAudits(workspace: string): Promise<string[]> {
   }
   for (const f of files) {
     try {
-      if (statSync(f).size > MAX_MANIFEST_BYTES) continue;
-      const { data } = parseManifestText(readFileSync(f, 'utf8'), f);
+      const { data } = parseManifestText((await readManifestBytes(f, f, MAX_MANIFEST_BYTES)).toString('utf8'), f);
       const audit = (data as { audit?: unknown }).audit;
-      if (typeof audit === 'string' && SLUG.test(audit)) names.add(audit);
+      // An audit name as the manifest schema allows it (so it names a folder inside records/).
+      if (typeof audit === 'string' && TEXT_RULES.slug.test(audit)) names.add(audit);
     } catch {
       // an unreadable manifest names no audit here
     }

@@ -17,7 +17,8 @@ export interface Chosen {
   found: boolean;
 }
 
-function isFolder(path: string): boolean {
+/** A folder (following links); false for anything else or nothing. */
+export function isFolder(path: string): boolean {
   try {
     return statSync(path).isDirectory();
   } catch {

@@ -14,7 +14,8 @@ import { gamma, poisson } from './sample.ts';
 
 const RATE_HZ = 30_000;
 
-function atomicWrite(path: string, text: string): void {
+/** Write a demo file through a temporary name, so a killed run never leaves half a file. */
+export function atomicWrite(path: string, text: Buffer | string): void {
   const tmp = `${path}.tmp-${process.pid}`;
   writeFileSync(tmp, text);
   renameSync(tmp, path);

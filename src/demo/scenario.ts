@@ -14,12 +14,12 @@
  *
  * Everything is a pure function of the seed: the same seed writes byte-identical files.
  */
-import { mkdirSync, writeFileSync, renameSync, existsSync } from 'node:fs';
+import { mkdirSync, existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { createRandom } from '../stats/random.ts';
 import { writeNpy } from '../readers/npy-write.ts';
 import { gamma, poisson, type Uniform } from './sample.ts';
-import { writeImagingPipelineDemo, writeSorterDemo } from './lab-folders.ts';
+import { atomicWrite, writeImagingPipelineDemo, writeSorterDemo } from './lab-folders.ts';
 
 export const DEMO_SEED = 20260101;
 const MONTHS = ['2026-01', '2026-02', '2026-03', '2026-04', '2026-05', '2026-06'];
@@ -75,12 +75,6 @@ function writeSafetensors(path: string, tensors: { name: string; shape: number[]
   len.writeBigUInt64LE(BigInt(json.length));
   const parts = [len, Buffer.from(json, 'utf8'), ...tensors.map((t) => Buffer.from(t.data.buffer, t.data.byteOffset, t.data.byteLength))];
   atomicWrite(path, Buffer.concat(parts));
-}
-
-function atomicWrite(path: string, bytes: Buffer | string): void {
-  const tmp = `${path}.tmp-${process.pid}`;
-  writeFileSync(tmp, bytes);
-  renameSync(tmp, path);
 }
 
 /** A magnitude-pruned layer: Gaussian weights, the smallest `pruned` fraction set to zero. */

@@ -17,7 +17,7 @@
 import { readdir, realpath, stat } from 'node:fs/promises';
 import path from 'node:path';
 import type { DataFormat } from './types.ts';
-import { isInside, resolveTarget, type PathContext } from './paths.ts';
+import { isInside, resolveTarget, toPosix, type PathContext } from './paths.ts';
 import { LABEL_TABLES } from '../readers/sorter-labels.ts';
 
 export interface LabFolderFiles {
@@ -26,7 +26,6 @@ export interface LabFolderFiles {
   relFiles: string[];
 }
 
-const toPosix = (p: string) => p.split(path.sep).join('/');
 
 /** The sorter files read, in this order when present (other `cluster_*.tsv` tables hold metrics, not labels). */
 const SORTER_FILES = ['spike_times.npy', 'spike_clusters.npy', 'spike_templates.npy', 'params.py', ...LABEL_TABLES];

@@ -16,13 +16,12 @@ import type { ResolvedDataset, ResolvedManifest } from './types.ts';
 import { parseManifestText } from './parse.ts';
 import { readManifestBytes } from './read-bounded.ts';
 import { collectManifest } from './validate.ts';
-import { isInside, resolveInsideWorkspace } from './paths.ts';
+import { isInside, resolveInsideWorkspace, toPosix } from './paths.ts';
 import { resolveFormat } from './format.ts';
 import { resolveLabFolder } from './lab-folders.ts';
 
 export const MAX_MANIFEST_BYTES = 1024 * 1024;
 
-const toPosix = (p: string) => p.split(path.sep).join('/');
 
 /**
  * Read, validate and resolve one manifest. Throws `InputError` (file unreadable, not UTF-8,

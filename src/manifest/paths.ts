@@ -43,7 +43,8 @@ export function globToRegExp(pattern: string): RegExp {
   return new RegExp(`^${body}$`, 's');
 }
 
-const toPosix = (p: string) => p.split(path.sep).join('/');
+/** A relative path with forward slashes, as manifests and records write paths on every system. */
+export const toPosix = (p: string) => p.split(path.sep).join('/');
 
 /** A manifest path resolved and checked to stay inside the workspace (steps 1–3). */
 export interface ResolvedTarget {
@@ -93,7 +94,6 @@ const OUTSIDE = 'data paths are relative to the manifest and must stay inside th
 export async function resolveInsideWorkspace(workspaceRoot: string, manifestDir: string, p: string, ctx: PathContext): Promise<ResolvedFiles> {
   const patternWhere = ctx.where.replace(/\.path$/, '.files');
   const { rootReal, real, fail } = await resolveTarget(workspaceRoot, manifestDir, p, ctx);
-  const outside = OUTSIDE;
   const st = await stat(real);
   const rel = (f: string) => toPosix(path.relative(rootReal, f));
   // 4. A file, or a folder's matching files.
@@ -115,7 +115,7 @@ export async function resolveInsideWorkspace(workspaceRoot: string, manifestDir:
       return fail(`found ${JSON.stringify(toPosix(path.join(p, name)))}, a broken symbolic link`, ctx.where, undefined, err);
     }
     if (!isInside(rootReal, fileReal)) {
-      fail(`found ${JSON.stringify(toPosix(path.join(p, name)))}, a symbolic link leading outside the workspace (to ${fileReal}); allowed: ${outside}`);
+      fail(`found ${JSON.stringify(toPosix(path.join(p, name)))}, a symbolic link leading outside the workspace (to ${fileReal}); allowed: ${OUTSIDE}`);
     }
     if ((await stat(fileReal)).isFile()) files.push(fileReal);
   }

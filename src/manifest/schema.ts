@@ -13,8 +13,6 @@ export const AUDIT_KINDS = ['activity', 'weights'] as const satisfies readonly A
 export const AXES = ['time', 'stimuli'] as const satisfies readonly Axis[];
 export const LAYOUTS = ['units-by-bins', 'bins-by-units'] as const satisfies readonly Layout[];
 export const DATA_FORMATS = ['npy', 'npz', 'csv', 'tsv', 'spikes', 'nwb', 'safetensors', 'sorter-folder', 'imaging-folder'] as const satisfies readonly DataFormat[];
-/** Formats whose dataset is one folder of several files with fixed names, read together. */
-export const FOLDER_FORMATS = ['sorter-folder', 'imaging-folder'] as const satisfies readonly DataFormat[];
 export const IMAGING_TRACES = ['F', 'F-neuropil', 'spks'] as const satisfies readonly ImagingTrace[];
 export const CELL_CHOICES = ['flag', 'probability', 'all'] as const satisfies readonly CellChoice[];
 export const NEGATIVES_POLICIES = ['keep', 'rectify', 'shift', 'refuse'] as const satisfies readonly NegativesPolicy[];

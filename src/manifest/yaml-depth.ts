@@ -20,10 +20,10 @@ import { InputError } from '../errors.ts';
 export const MAX_YAML_DEPTH = 64;
 
 /**
- * Throws an InputError naming `file` and the line (block line + `lineOffset`) where the nesting
- * first passes `maxDepth`. Cost: linear in the text.
+ * Throws an InputError naming `file` and the line where the nesting first passes MAX_YAML_DEPTH.
+ * Cost: linear in the text.
  */
-export function checkYamlDepth(text: string, file: string, lineOffset = 0, maxDepth = MAX_YAML_DEPTH): void {
+export function checkYamlDepth(text: string, file: string): void {
   const lines = text.split('\n');
   const indents: number[] = []; // block indentation stack
   let flow = 0;
@@ -82,10 +82,10 @@ export function checkYamlDepth(text: string, file: string, lineOffset = 0, maxDe
       }
       if (quote === '' && c !== ' ' && c !== '\t') prev = c;
     }
-    if (depth + lineFlowMax > maxDepth) {
-      throw new InputError(`YAML is nested ${depth + lineFlowMax} or more levels deep here; allowed: at most ${maxDepth} levels`, {
+    if (depth + lineFlowMax > MAX_YAML_DEPTH) {
+      throw new InputError(`YAML is nested ${depth + lineFlowMax} or more levels deep here; allowed: at most ${MAX_YAML_DEPTH} levels`, {
         file,
-        line: li + 1 + lineOffset,
+        line: li + 1,
         hint: 'a manifest needs about 5 levels: datasets, an item, its fields; remove the extra brackets or indentation',
       });
     }
