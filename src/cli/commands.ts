@@ -81,3 +81,11 @@ export const COMMANDS: Record<string, CommandSpec> = {
     flags: { out: { type: 'string', value: 'DIR', help: "output folder (default: the installed package's _site/)" }, quiet },
   },
 };
+
+/**
+ * The command named `name`, or undefined. Own keys only: a word a user types (`toString`,
+ * `constructor`) must not find what every object inherits.
+ */
+export function commandSpec(name: string | undefined): CommandSpec | undefined {
+  return name !== undefined && Object.hasOwn(COMMANDS, name) ? COMMANDS[name] : undefined;
+}

@@ -11,7 +11,7 @@ import { resolve, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { InputErrors, InputError, causeChain } from '../errors.ts';
 import { parseArgs, flagHelp, flagUsage, UsageError } from './args.ts';
-import { COMMANDS } from './commands.ts';
+import { commandSpec, COMMANDS, type CommandSpec } from './commands.ts';
 import { createProgress } from './progress.ts';
 import { safeTerminalLine } from '../text/safe-terminal.ts';
 import { chooseOut, chooseWorkspace, describeChoice } from './workspace.ts';
@@ -22,15 +22,14 @@ const PACKAGE = resolve(fileURLToPath(new URL('../..', import.meta.url)));
 const DEMO_WORKSPACE = join(PACKAGE, 'content');
 const DEMO_OUT = join(PACKAGE, '_site');
 
-function usageLine(name: string): string {
-  const c = COMMANDS[name];
+function usageLine(name: string, c: CommandSpec): string {
   return ['lacuna', name, ...c.args, flagUsage(c.flags)].filter(Boolean).join(' ');
 }
 
 function help(command?: string): string {
-  if (command && COMMANDS[command]) {
-    const c = COMMANDS[command];
-    return `${usageLine(command)}\n\n${c.summary}.\n${c.details ? `\n${c.details}\n` : ''}\nOptions:\n${flagHelp(c.flags)}\n`;
+  const c = commandSpec(command);
+  if (command && c) {
+    return `${usageLine(command, c)}\n\n${c.summary}.\n${c.details ? `\n${c.details}\n` : ''}\nOptions:\n${flagHelp(c.flags)}\n`;
   }
   return (
     `lacuna ${TOOL_VERSION}: sparsity audits with intervals, findings, drift and versioned reports\n\n` +
@@ -53,7 +52,7 @@ function version(): string {
 export async function main(argv: string[]): Promise<number> {
   const [command, ...rest] = argv;
   if (!command || command === 'help' || command === '--help' || command === '-h') {
-    if (rest[0] !== undefined && !COMMANDS[rest[0]]) {
+    if (rest[0] !== undefined && !commandSpec(rest[0])) {
       process.stderr.write(`lacuna: no command "${safeTerminalLine(rest[0])}"\n\n${help()}`);
       return 2;
     }
@@ -64,7 +63,7 @@ export async function main(argv: string[]): Promise<number> {
     process.stdout.write(version());
     return 0;
   }
-  const spec = Object.hasOwn(COMMANDS, command) ? COMMANDS[command] : undefined;
+  const spec = commandSpec(command);
   if (!spec) {
     process.stderr.write(`lacuna: unknown command "${safeTerminalLine(command)}"\n\n${help()}`);
     return 2;

@@ -49,6 +49,17 @@ describe('lacuna command', () => {
     expect(b.stderr).toContain('--worksapce');
   });
 
+  it('help for a word every object inherits (toString, constructor, __proto__) is an unknown command, not a crash', () => {
+    for (const word of ['toString', 'constructor', '__proto__']) {
+      for (const args of [['help', word], [word, '--help']]) {
+        const r = run(...args);
+        expect(r.status, `${args.join(' ')}: ${r.stderr}`).toBe(2);
+        expect(r.stderr).toContain(`"${word}"`);
+        expect(r.stderr).not.toMatch(/TypeError|at \w+ \(/);
+      }
+    }
+  });
+
   it('init writes a workspace that check accepts; the seeded demo data are reproducible', () => {
     const r = run('check', '--workspace', ws);
     expect(r.status, r.stderr).toBe(0);
