@@ -21,7 +21,7 @@
  * is a shortcut, the record of a version is the thing to trust.
  */
 import { createHash } from 'node:crypto';
-import { existsSync, mkdirSync, readdirSync, readFileSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { closeSync, constants, existsSync, fstatSync, mkdirSync, openSync, readdirSync, readFileSync, renameSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import { open } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { DatasetResult, FileProvenance } from '../types.ts';
@@ -80,10 +80,30 @@ function atomicWriteJson(file: string, value: unknown): void {
   atomicWriteText(file, JSON.stringify(value));
 }
 
-function readJson<T>(file: string): T | null {
-  if (!existsSync(file)) return null;
+/**
+ * A cache file's text, never through a symbolic link (a cache handed over with the workspace may
+ * hold links to files outside it: O_NOFOLLOW makes opening one fail, and it reads as missing),
+ * and never from a FIFO or device (O_NONBLOCK: opening one does not wait; it is not a file).
+ */
+function readCacheText(file: string): string | null {
+  let fd: number;
   try {
-    return JSON.parse(readFileSync(file, 'utf8')) as T;
+    fd = openSync(file, constants.O_RDONLY | (constants.O_NOFOLLOW ?? 0) | (constants.O_NONBLOCK ?? 0));
+  } catch {
+    return null;
+  }
+  try {
+    return fstatSync(fd).isFile() ? readFileSync(fd, 'utf8') : null;
+  } finally {
+    closeSync(fd);
+  }
+}
+
+function readJson<T>(file: string): T | null {
+  const text = readCacheText(file);
+  if (text === null) return null;
+  try {
+    return JSON.parse(text) as T;
   } catch {
     return null;
   }
@@ -239,7 +259,8 @@ export function readCachedDataset(workspace: string, key: string, onReject?: OnR
   if (!existsSync(file)) return null;
   let result: DatasetResult | null = null;
   try {
-    const text = readFileSync(file, 'utf8');
+    const text = readCacheText(file);
+    if (text === null) throw new Error('not a regular file');
     const nl = text.indexOf('\n');
     const head = JSON.parse(text.slice(0, nl)) as { format?: unknown; key?: unknown; digest?: unknown };
     const body = text.slice(nl + 1);

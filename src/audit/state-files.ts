@@ -41,7 +41,7 @@ export function refuseSymlinkedWorkspaceState(workspace: string): void {
   }
   const cache = join(workspace, '.lacuna-cache');
   refuseSymlink(cache, workspace, 'cache folder');
-  for (const name of ['datasets', 'hashes.json', 'build.lock']) refuseSymlink(join(cache, name), workspace, 'cache entry');
+  for (const name of ['datasets', 'hashes.json', 'hashes.d', 'build.lock']) refuseSymlink(join(cache, name), workspace, 'cache entry');
 }
 
 /** fsync a folder, so the names just created in it survive a crash. */

@@ -10,7 +10,7 @@
  */
 import { describe, it, expect, afterAll } from 'vitest';
 import { spawnSync } from 'node:child_process';
-import { closeSync, mkdirSync, mkdtempSync, openSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
+import { closeSync, symlinkSync, mkdirSync, mkdtempSync, openSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { planHashes, sha256File, cacheDir } from '../../src/audit/cache.ts';
@@ -133,5 +133,28 @@ describe('cache entries are checked on read', () => {
     expect(rec.inputs.find((f) => f.path === 'data/m1.npy')!.sha256).toBe(await sha256File(join(ws, 'data', 'm1.npy')));
     expect(lines.join('')).toMatch(/notice: cache entry .*hashes\.json refused, the entry of data\/m1\.npy/);
     expect(readdirSync(join(ws, 'records', 'a'))).toEqual(['v001.json', 'v002.json']);
+  });
+
+  // A FIFO as the link's target: a reader that followed the link would block on it for ever, so
+  // the child build's 60 s limit would end it and the test fail (mkfifo: coreutils).
+  it.skipIf(spawnSync('mkfifo', ['--version']).status !== 0)('a cache entry or hash fragment that is a symbolic link is never read through: computed again, with a notice', async () => {
+    const ws = workspace();
+    await buildWorkspace({ workspace: ws, out: join(ws, '_site'), progress: quiet, workers: '1' });
+    const outside = mkdtempSync(join(tmpdir(), 'lacuna-outside-'));
+    made.push(outside);
+    const fifo = join(outside, 'fifo');
+    expect(spawnSync('mkfifo', [fifo]).status).toBe(0);
+    const entries = readdirSync(join(cacheDir(ws), 'datasets'));
+    const entry = join(cacheDir(ws), 'datasets', entries[0]);
+    rmSync(entry);
+    symlinkSync(fifo, entry);
+    mkdirSync(join(cacheDir(ws), 'hashes.d'));
+    symlinkSync(fifo, join(cacheDir(ws), 'hashes.d', '1-2-x.json'));
+    const cli = join(import.meta.dirname, '../../bin/lacuna.mjs');
+    const r = spawnSync(process.execPath, [cli, 'build', '--workspace', ws, '--out', join(ws, '_site')], { encoding: 'utf8', timeout: 60_000 });
+    expect(r.signal, 'the build blocked reading through a link').toBeNull();
+    expect(r.status, r.stderr).toBe(0);
+    expect(r.stderr).toMatch(new RegExp(`notice: cache entry .*${entries[0]} refused`));
+    expect(r.stderr).toMatch(/computing 1 dataset/);
   });
 });

@@ -62,6 +62,20 @@ describe('linked state folders', () => {
     });
   }
 
+  for (const shard of [undefined, '1/1']) {
+    it(`.lacuna-cache/hashes.d as a symbolic link is refused${shard ? ' by a shard' : ''}, and no file where it points is written or removed`, async () => {
+      const ws = workspace(1);
+      const elsewhere = temp('lacuna-elsewhere-');
+      writeFileSync(join(elsewhere, 'someone-elses.json'), '{}');
+      mkdirSync(join(ws, '.lacuna-cache'));
+      symlinkSync(elsewhere, join(ws, '.lacuna-cache', 'hashes.d'));
+      const err = await failure(buildWorkspace({ workspace: ws, out: join(ws, '_site'), progress: quiet, workers: '1', shard }));
+      expect(err).toBeInstanceOf(InputError);
+      expect((err as Error).message).toContain('is a symbolic link');
+      expect(readdirSync(elsewhere)).toEqual(['someone-elses.json']);
+    });
+  }
+
   it("the site's state file as a symbolic link is refused, and its target is left alone", async () => {
     const ws = workspace(1);
     const out = join(ws, '_site');
