@@ -137,7 +137,7 @@ export function createActivityPass(shape: { units: number; bins: number }, optio
       if (policy === 'rectify') {
         mode = 1; yMean = scan.sumPos / n; l1 = scan.sumPos; maxAbsY = Math.max(0, scan.max); changed = scan.negative;
       } else if (policy === 'shift') {
-        shiftBy = scan.min; yMean = mean - shiftBy; l1 = scan.sum - n * shiftBy; maxAbsY = scan.max - shiftBy; changed = n;
+        shiftBy = scan.min; yMean = mean - shiftBy; maxAbsY = scan.max - shiftBy; changed = n; // l1 from the corrected mean, below
       } else if (policy === 'refuse') {
         mode = 2; st.refused[u] = 1;
       }

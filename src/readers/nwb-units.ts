@@ -100,16 +100,6 @@ export function checkUnitsHeader(file: H5File, table: string, binMs: number, rel
   if (idDs && problem) throw new InputError(problem, { file: relPath, where: idDs.path });
 }
 
-/**
- * For `lacuna check`: read and validate `spike_times_index` (O(units) numbers, already bounded
- * by the budget) with the same function and message as the build.
- */
-export function checkUnitsIndex(file: H5File, table: string, relPath: string): void {
-  const spikes = getDataset(file, `${table}/spike_times`);
-  const indexDs = getDataset(file, `${table}/spike_times_index`);
-  if (spikes && indexDs) readIndex(indexDs, rowsOf(spikes), relPath);
-}
-
 /** Open the units table at `table` as an ActivityFile. Takes ownership of `file` (closed by `close()`). */
 export function openUnitsTable(file: H5File, table: string, opts: { path: string; relPath: string; binMs: number; recordingEndS?: number | null }): ActivityFile {
   const { relPath, binMs } = opts;

@@ -106,12 +106,7 @@ export async function inspectNwb(path: string, relPath: string, series: string |
   try {
     const c = choose(file, relPath, series);
     refuseEndForSeries(c, relPath, recordingEndS);
-    checkCandidate(file, c, binMs, relPath);
-    // A units table's bin count depends on its spike times: read them as the build does at open
-    // (one pass in bounded slices, O(units + intervals) memory), so a spike far past the
-    // recording (e.g. at 10^15 s) is refused by check with the build's message. The returned
-    // source is dropped; the file is closed below.
-    if (c.kind === 'units') openUnitsTable(file, c.path, { path, relPath, binMs, recordingEndS });
+    checkCandidate(file, c, { path, relPath, binMs, recordingEndS });
     const { candidates } = findCandidates(file);
     return {
       path: relPath,

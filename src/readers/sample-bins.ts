@@ -54,6 +54,7 @@ export function sampleBinner(binMs: number, rateHz: number): SampleBinner {
   const samplesPerBin = Number(P) / Number(Q);
   const integer = Q === 1n && P <= BigInt(Number.MAX_SAFE_INTEGER);
   const p = Number(P);
+  const q = Number(Q);
   const exactBin = (s: number) => Number((BigInt(s) * Q) / P);
   const binOf = integer
     ? (s: number) => {
@@ -63,9 +64,9 @@ export function sampleBinner(binMs: number, rateHz: number): SampleBinner {
         return b;
       }
     : (s: number) => {
-        const q = (s * Number(Q)) / Number(P);
-        const b = Math.floor(q);
-        return q - b < 1e-6 || b + 1 - q < 1e-6 ? exactBin(s) : b;
+        const x = (s * q) / p;
+        const b = Math.floor(x);
+        return x - b < 1e-6 || b + 1 - x < 1e-6 ? exactBin(s) : b;
       };
   return {
     samplesPerBin,

@@ -27,16 +27,16 @@
  */
 import type { Finding } from '../types.ts';
 import type { SorterSettings } from '../manifest/types.ts';
-import { fileRange, inputError, type ByteSource } from './byte-source.ts';
+import { inputError, type ByteSource } from './byte-source.ts';
 import { decodeInto, type DType } from './dtype.ts';
-import { readNpyHeader, type NpyHeader } from './npy-header.ts';
+import type { NpyHeader } from './npy-header.ts';
+import { openNpyFile } from './npy.ts';
 import { readSorterParams } from './sorter-params.ts';
 import { LABEL_TABLES, mergeLabels, readLabelTable, type LabelTable } from './sorter-labels.ts';
 import { sampleBinner, type SampleBinner } from './sample-bins.ts';
 import { checkActivityShape } from './memory-budget.ts';
 import type { ReadableActivityFile } from './activity-file.ts';
 import { spikeCountsFile } from './spike-counts.ts';
-import { stat } from 'node:fs/promises';
 
 const CHUNK = 1 << 20;
 const MAX_BINS = 2 ** 31 - 1;
@@ -65,10 +65,8 @@ interface IntArray {
 }
 
 async function openIntArray(m: { path: string; rel: string }, what: string): Promise<IntArray> {
-  const { size } = await stat(m.path);
-  const src = fileRange(m.path, m.rel, 0, size);
+  const { src, header: h } = await openNpyFile(m.path, m.rel);
   try {
-    const h = await readNpyHeader(src, m.rel);
     if (h.dtype.kind !== 'i' && h.dtype.kind !== 'u') {
       throw inputError(m.rel, 'descr', `${what} has dtype ${h.dtype.name}; allowed: an integer dtype (sample indices and cluster ids are whole numbers)`);
     }
