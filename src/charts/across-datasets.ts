@@ -213,7 +213,7 @@ function maxPerRow(rows: AcrossDatasetsRow[]): number {
 
 /**
  * One across-datasets chart per measure present (`acrossDatasetsMeasures` order), for a version
- * page. Not part of `buildCharts`: the page decides where they go.
+ * page; `buildCharts` adds them, and the page puts them in its across-datasets section.
  */
 export function acrossDatasetsCharts(datasets: DatasetResult[], options: AcrossDatasetsOptions = {}): ChartSpec[] {
   const out: ChartSpec[] = [];

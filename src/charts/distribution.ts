@@ -6,7 +6,7 @@
  * Up to STRIP_MAX units are drawn as a strip (one tick per unit); more as a histogram.
  */
 import type { MeasureResult } from '../types.ts';
-import { fmt } from './format.ts';
+import { estimateWithInterval } from './format.ts';
 import { ROLE } from './theme.ts';
 
 /** Largest number of units drawn one tick each; above this a histogram is drawn. */
@@ -66,7 +66,7 @@ export function distributionBody(input: DistributionInput): { body: Record<strin
     // The rule only: its value goes in the subtitle, where it covers no data.
     layers.push({ data: { values: [{ estimate: m.estimate }] }, mark: { type: 'rule', color: ROLE.estimate, strokeWidth: 2 }, encoding: { x: { field: 'estimate', type: 'quantitative' } } });
   }
-  const value = m.estimate === null ? 'no estimate' : `${fmt(m.estimate)}${m.interval ? ` [${fmt(m.interval[0])}, ${fmt(m.interval[1])}]` : ''}`;
+  const value = estimateWithInterval(m);
   const subtitle = `${style === 'strip' ? 'ticks: one per unit' : 'bars: units per bin'} · line: ${input.summaryName} ${value}${m.interval ? ' · band: its bootstrap interval' : ''}`;
   return { body: { layer: layers }, style, height: style === 'strip' ? 90 : 200, subtitle };
 }

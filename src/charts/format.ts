@@ -32,6 +32,11 @@ export function intervalPhrase(m: Pick<MeasureResult, 'interval' | 'level' | 'me
 }
 
 /** "0.692 (95% CI 0.609 to 0.771 (BCa bootstrap), n = 11)" — estimate, interval and n in words. */
+/** `0.991 [0.989, 0.994]` (the interval when there is one), or `no estimate`: a chart's legend words. */
+export function estimateWithInterval(m: MeasureResult): string {
+  return m.estimate === null ? 'no estimate' : `${fmt(m.estimate)}${m.interval ? ` [${fmt(m.interval[0])}, ${fmt(m.interval[1])}]` : ''}`;
+}
+
 export function estimatePhrase(m: MeasureResult): string {
   if (m.estimate === null) return `no estimate${m.note ? ` (${m.note})` : ''}, n = ${m.n}`;
   const ci = intervalPhrase(m);

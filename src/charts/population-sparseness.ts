@@ -7,7 +7,7 @@
  * defined bin break the line (shown as a gap, never bridged).
  */
 import type { ActivityChartData, ChartSpec, DatasetResult, MeasureResult } from '../types.ts';
-import { estimatePhrase, fmt, frame, slug } from './format.ts';
+import { estimatePhrase, estimateWithInterval, fmt, frame, slug } from './format.ts';
 import { fitDomain } from './domain.ts';
 import { ROLE } from './theme.ts';
 import { minOf, maxOf } from '../util/arrays.ts';
@@ -114,6 +114,6 @@ export function axisSentence(domain: [number, number]): string {
 
 /** Legend in words, with the estimate's value (kept off the plot so it covers no data). */
 function subtitle(m: MeasureResult, domain: [number, number]): string {
-  const value = m.estimate === null ? 'no estimate' : `${fmt(m.estimate)}${m.interval ? ` [${fmt(m.interval[0])}, ${fmt(m.interval[1])}]` : ''}`;
+  const value = estimateWithInterval(m);
   return `line: window mean · light band: window min–max · dashed line: mean over bins, ${value}${m.interval ? ' · dark band: its bootstrap interval' : ''}${domain[0] === 0 && domain[1] === 1 ? '' : ' · axis fitted to the data'}`;
 }

@@ -9,7 +9,8 @@
  * - Type: one sans-serif stack (FONT) for the charts and the pages (`--sans` in
  *   `src/report/style.css` is `var(--chart-font)`), at sizes that stay at least 10 CSS px when a
  *   chart is scaled down to a 420 px phone column (see CHART_WIDTH).
- * - Marks: estimates are diamonds, intervals are bars with short end caps, grids are dotted
+ * - Marks: an estimate is a rule in the estimate colour (a point, shaped by its group, where
+ *   several datasets share a chart), intervals are bars with short end caps, grids are dotted
  *   hairlines like the pages' table rules, axes have no box.
  *
  * `cssCustomProperties()` gives the same values as CSS custom properties (`--chart-…`); the
@@ -63,10 +64,8 @@ export const CATEGORY = [PALETTE.indigo, PALETTE.ochre, PALETTE.plum, PALETTE.sl
 export const DASHES = [[1, 0], [7, 3], [2, 2], [9, 3, 2, 3], [4, 4], [1, 3]];
 /** Point shapes paired with CATEGORY (filled where the mark allows). */
 export const SHAPES = ['circle', 'square', 'triangle-up', 'diamond', 'triangle-down', 'cross'];
-/** The shape of an estimate wherever it is drawn as a point. */
-export const ESTIMATE_SHAPE = 'diamond';
 
-/** Typeface stack: the pages' `--sans`, so chart text and page text match. */
+/** Typeface stack, shared with the pages (their `--sans` is this, as `--chart-font`). */
 export const FONT = 'system-ui, -apple-system, "Segoe UI", "Noto Sans", "DejaVu Sans", Arial, sans-serif';
 
 /** Type sizes in SVG px (see SVG_WIDTH for why these sizes are legible on a phone). */

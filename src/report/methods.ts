@@ -12,6 +12,8 @@ import type { AuditResult, DatasetResult, IntervalRecord, MeasureResult } from '
 import { measureLabel } from '../charts/format.ts';
 import { citeText } from './citations.ts';
 import { findingKind } from './site-data.ts';
+import { formatCount } from '../format/number.ts';
+import { maxOf, minOf } from '../util/arrays.ts';
 
 const OPEN = '\u0001';
 const CLOSE = '\u0002';
@@ -86,18 +88,14 @@ export function hadNegatives(result: AuditResult): boolean {
 }
 
 /** A count with thousands separators (`72,000`). */
-const count = (n: number): string => Math.round(n).toLocaleString('en-US');
+const count = (n: number): string => formatCount(n);
 
 /** `from 71 to 129 bins`, or `78 bins` when all are equal. */
 function blockRange(lens: (number | null)[]): string {
   const xs = lens.filter((x): x is number => x !== null);
   if (!xs.length) return 'not recorded';
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (const x of xs) {
-    if (x < lo) lo = x;
-    if (x > hi) hi = x;
-  }
+  const lo = minOf(xs);
+  const hi = maxOf(xs);
   return lo === hi ? `${lo} bins` : `from ${lo} to ${hi} bins`;
 }
 

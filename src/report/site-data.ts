@@ -26,7 +26,7 @@ export interface GlossaryRow {
 }
 
 export interface SiteData {
-  measures: { glossary: GlossaryRow[]; measures: Record<string, { label: string; summarises: string }> };
+  measures: { glossary: GlossaryRow[] };
   levels: { order: FindingLevel[]; levels: Record<FindingLevel, { title: string; meaning: string; affectsNumbers: boolean }> };
   findings: { kinds: Record<string, string> };
   labels: Record<string, string>;

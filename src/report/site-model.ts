@@ -62,7 +62,6 @@ export interface ReportModel {
   /** One chart per measure across datasets (`across-` charts without a dataset). */
   acrossCharts: ChartModel[];
   methodsHtml: string;
-  methodsPlain: string;
   cautions: string[];
   notesHtml: string;
   downloads: Download[];
@@ -207,7 +206,6 @@ export function reportModel(
     // Their captions list every dataset's estimate and interval, as the overview table does: folded.
     acrossCharts: charts.filter((c) => !isDriftChart(c) && (c.datasetId === null || !extra.datasetHref.has(c.datasetId))).map((c) => ({ ...c, foldCaption: true })),
     methodsHtml: renderMarkdown(texts.methods.markdown, 3),
-    methodsPlain: texts.methods.plain,
     cautions: texts.cautions,
     notesHtml: renderMarkdown(result.notes, 3),
     downloads: DOWNLOADS,

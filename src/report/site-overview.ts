@@ -66,7 +66,8 @@ export function columnLabel(key: string): string {
   return key.startsWith('event:') ? `${measureLabel(key.slice(6))} (event-based)` : measureLabel(key);
 }
 
-function columnOrder(result: AuditResult): string[] {
+/** The measure columns of an audit, in the order of the measure lists, event-based ones last. */
+export function columnOrder(result: AuditResult): string[] {
   const known: readonly string[] = result.kind === 'weights' ? WEIGHT_MEASURES : ACTIVITY_MEASURES;
   const seen = new Set(result.datasets.flatMap((d) => measureEntries(d).map(([k]) => k)));
   const rank = (k: string) => {
@@ -77,8 +78,10 @@ function columnOrder(result: AuditResult): string[] {
   return [...seen].sort((a, b) => rank(a) - rank(b) || a.localeCompare(b));
 }
 
-function measureOf(ds: DatasetResult, key: string): MeasureResult | undefined {
-  return measureEntries(ds).find(([k]) => k === key)?.[1];
+/** A dataset's measure under a column key of `measureEntries`. */
+export function measureOf(ds: DatasetResult, key: string): MeasureResult | undefined {
+  const [table, name] = key.startsWith('event:') ? [ds.eventMeasures ?? {}, key.slice(6)] : [ds.measures, key];
+  return Object.hasOwn(table, name) ? (table as Record<string, MeasureResult>)[name] : undefined;
 }
 
 function levelCounts(ds: DatasetResult): string {
@@ -89,7 +92,8 @@ function levelCounts(ds: DatasetResult): string {
   return parts.length ? parts.join(', ') : 'none';
 }
 
-const byMonthGroup = (a: DatasetResult, b: DatasetResult) =>
+/** Datasets by month, then group, then id (undated last). */
+export const byMonthGroup = (a: DatasetResult, b: DatasetResult) =>
   (a.month ?? '\uffff').localeCompare(b.month ?? '\uffff') || (a.group ?? '').localeCompare(b.group ?? '') || a.id.localeCompare(b.id);
 
 /** The overview table. `hrefFor` gives the link of a dataset's own page. */

@@ -9,11 +9,10 @@
  * three significant digits, as on the page; values below 0.001 or of 10,000 and more are
  * written as a × 10^k in math mode. Dataset ids and groups are user text: escaped.
  */
-import type { AuditResult, DatasetResult, MeasureResult } from '../types.ts';
-import { columnLabel, measureEntries } from './site-overview.ts';
-import { formatLevel, formatMethod, formatNumber } from './site-format.ts';
+import type { AuditResult, MeasureResult } from '../types.ts';
+import { byMonthGroup, columnLabel, columnOrder, measureOf } from './site-overview.ts';
+import { formatLevel, formatMethod, formatNumber, NONE } from './site-format.ts';
 import { escapeLatex } from './tables.ts';
-import { ACTIVITY_MEASURES, WEIGHT_MEASURES } from '../types.ts';
 
 /** Measure columns beyond this many turn the page to landscape. */
 export const PORTRAIT_MAX_COLUMNS = 5;
@@ -21,32 +20,23 @@ export const PORTRAIT_MAX_COLUMNS = 5;
 /** A number as LaTeX: `0.991`, `$1.23\times10^{-4}$`, `---` for none. */
 export function latexNumber(x: number | null | undefined): string {
   const s = formatNumber(x);
-  if (s === '—') return '---';
+  if (s === NONE) return '---';
   const m = /^(-?[\d.]+)e([+-]?\d+)$/.exec(s);
   if (m) return `$${m[1]}\\times10^{${Number(m[2])}}$`;
   return s.replace(/^-/, '$-$');
 }
 
-function keysOf(result: AuditResult): string[] {
-  const known: readonly string[] = result.kind === 'weights' ? WEIGHT_MEASURES : ACTIVITY_MEASURES;
-  const seen = new Set(result.datasets.flatMap((d) => measureEntries(d).map(([k]) => k)));
-  const rank = (k: string) => (k.startsWith('event:') ? 100 : 0) + Math.max(0, known.indexOf(k.replace(/^event:/, '')));
-  return [...seen].sort((a, b) => rank(a) - rank(b) || a.localeCompare(b));
-}
-
-const find = (ds: DatasetResult, key: string): MeasureResult | undefined => measureEntries(ds).find(([k]) => k === key)?.[1];
-
 /** The whole `summary.tex`. */
 export function summaryTex(result: AuditResult): string {
-  const keys = keysOf(result);
+  const keys = columnOrder(result); // the page's overview columns, in its order
   const landscape = keys.length > PORTRAIT_MAX_COLUMNS;
   const cols = 2 + keys.length;
-  const all = result.datasets.flatMap((d) => keys.map((k) => find(d, k)).filter((m): m is MeasureResult => m !== undefined));
+  const all = result.datasets.flatMap((d) => keys.map((k) => measureOf(d, k)).filter((m): m is MeasureResult => m !== undefined));
   const kinds = [...new Set(all.filter((m) => m.interval).map((m) => `${formatLevel(m.level)} ${formatMethod(m.method)}`))];
   const intervalWords = kinds.length ? `, with its ${kinds.join(' or ')} confidence interval below it` : ' (no sampling intervals)';
   const line = (cells: string[]) => `${cells.join(' & ')} \\\\`;
   const head = line(['Dataset', 'Group', ...keys.map((k) => `\\multicolumn{1}{c}{${escapeLatex(columnLabel(k))}}`)]);
-  const sorted = [...result.datasets].sort((a, b) => (a.month ?? '\uffff').localeCompare(b.month ?? '\uffff') || (a.group ?? '').localeCompare(b.group ?? '') || a.id.localeCompare(b.id));
+  const sorted = [...result.datasets].sort(byMonthGroup);
   const body: string[] = [];
   let month: string | null | undefined;
   for (const ds of sorted) {
@@ -55,7 +45,7 @@ export function summaryTex(result: AuditResult): string {
       if (body.length) body.push('\\addlinespace');
       body.push(`\\multicolumn{${cols}}{l}{\\textit{${escapeLatex(ds.month ?? 'month not set')}}} \\\\`);
     }
-    const ms = keys.map((k) => find(ds, k));
+    const ms = keys.map((k) => measureOf(ds, k));
     body.push(line([`\\texttt{${escapeLatex(ds.id)}}`, escapeLatex(ds.group ?? ''), ...ms.map((m) => (m ? latexNumber(m.estimate) : '---'))]));
     if (ms.some((m) => m?.interval)) {
       body.push(`${line(['', '', ...ms.map((m) => (m?.interval ? `{\\scriptsize [${latexNumber(m.interval[0])}, ${latexNumber(m.interval[1])}]}` : ''))])}[2pt]`);
