@@ -7,24 +7,16 @@
  *   number (the records' own measures are checked against outside references elsewhere, e.g.
  *   test/audit/build.test.ts); `lacuna --version` says which ran.
  */
-import { describe, it, expect, afterAll } from 'vitest';
+import { describe, it, expect } from 'vitest';
+import { tempDirs } from '../helpers/temp-dirs.ts';
 import { spawnSync } from 'node:child_process';
-import { cpSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { cpSync, mkdirSync, readdirSync, readFileSync, renameSync, writeFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { compiledIsCurrent, sourceFingerprint } from '../../bin/entry.mjs';
 
 const REPO = resolve(import.meta.dirname, '../..');
 const BIN = join(REPO, 'bin', 'lacuna.mjs');
-const made: string[] = [];
-const tempDir = (prefix: string) => {
-  const d = mkdtempSync(join(tmpdir(), prefix));
-  made.push(d);
-  return d;
-};
-afterAll(() => {
-  for (const d of made) rmSync(d, { recursive: true, force: true });
-});
+const tempDir = tempDirs();
 const run = (args: string[], sources: boolean) =>
   spawnSync(process.execPath, [BIN, ...args], {
     encoding: 'utf8',

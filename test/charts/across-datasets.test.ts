@@ -10,6 +10,7 @@ import { acrossDatasetsChart, acrossDatasetsCharts, acrossDatasetsMeasures, acro
 import { compileToVega, renderChartSvg } from '../../src/charts/render.ts';
 import type { AuditResult, DatasetResult } from '../../src/types.ts';
 import { activityFixture } from '../fixtures/audit-result.ts';
+import { specMarks } from '../helpers/chart-marks.ts';
 
 /** The activity fixture's two datasets (rig A) plus two copies as rig B, one an outlier. */
 function fourDatasets(): DatasetResult[] {
@@ -25,20 +26,6 @@ function fourDatasets(): DatasetResult[] {
   return [a1, a2, b1, b2];
 }
 
-/** Every layer of a spec (recursively) with its mark type. */
-function layers(spec: unknown): Record<string, any>[] {
-  const out: Record<string, any>[] = [];
-  const walk = (v: unknown) => {
-    if (Array.isArray(v)) v.forEach(walk);
-    else if (v && typeof v === 'object') {
-      const o = v as Record<string, any>;
-      if ('mark' in o) out.push(o);
-      Object.values(o).forEach(walk);
-    }
-  };
-  walk(spec);
-  return out;
-}
 
 const markType = (l: Record<string, any>) => (typeof l.mark === 'string' ? l.mark : l.mark.type);
 
@@ -59,7 +46,7 @@ describe('acrossDatasetsChart', () => {
   });
 
   it('draws interval bars, points told apart by colour and shape, and one shared x axis', () => {
-    const ls = layers(chart.spec);
+    const ls = specMarks(chart.spec);
     const point = ls.find((l) => markType(l) === 'point')!;
     expect(point.encoding.color.field).toBe('group');
     expect(point.encoding.shape.field).toBe('group');
@@ -77,7 +64,7 @@ describe('acrossDatasetsChart', () => {
   });
 
   it('the axis spans every estimate and interval bound', () => {
-    const domain = layers(chart.spec).find((l) => markType(l) === 'point')!.encoding.x.scale.domain as [number, number];
+    const domain = specMarks(chart.spec).find((l) => markType(l) === 'point')!.encoding.x.scale.domain as [number, number];
     for (const ds of datasets) {
       const m = ds.measures.lifetime_sparseness!;
       for (const v of [m.estimate!, ...(m.interval ?? [])]) {
@@ -108,7 +95,7 @@ describe('acrossDatasetsChart', () => {
     const c = acrossDatasetsChart(datasets, 'lifetime_sparseness', { by: 'month' })!;
     const rows = acrossDatasetsRows(datasets, 'lifetime_sparseness', { by: 'month' });
     expect(rows.map((r) => [r.row, r.slot])).toEqual([['2024-01', 0], ['2024-02', 0], ['2024-01', 1], ['2024-02', 1]]);
-    expect(layers(c.spec).find((l) => markType(l) === 'point')!.encoding.yOffset.field).toBe('slot');
+    expect(specMarks(c.spec).find((l) => markType(l) === 'point')!.encoding.yOffset.field).toBe('slot');
     expect(c.id).not.toBe(chart.id);
   });
 

@@ -10,23 +10,10 @@ import { acrossDatasetsChart } from '../../src/charts/across-datasets.ts';
 import { formatNumber } from '../../src/report/site-format.ts';
 import type { ActivityChartData, ChartSpec, WeightChartData } from '../../src/types.ts';
 import { activityFixture, weightsFixture } from '../fixtures/audit-result.ts';
+import { specMarks } from '../helpers/chart-marks.ts';
 
 const quiet = { logger: { warn: (m: string) => expect.fail(`chart warning: ${m}`) } };
 
-/** Every object with a `mark` in a spec. */
-function marks(spec: unknown): Record<string, any>[] {
-  const out: Record<string, any>[] = [];
-  const walk = (v: unknown) => {
-    if (Array.isArray(v)) v.forEach(walk);
-    else if (v && typeof v === 'object') {
-      const o = v as Record<string, any>;
-      if ('mark' in o) out.push(o);
-      for (const [k, x] of Object.entries(o)) if (k !== 'data') walk(x);
-    }
-  };
-  walk(spec);
-  return out;
-}
 const type = (l: Record<string, any>) => (typeof l.mark === 'string' ? l.mark : l.mark.type);
 /** Text of the `<text>` elements of an SVG. */
 const texts = (svg: string) => [...svg.matchAll(/<text[^>]*>([^<]*)<\/text>/g)].map((m) => m[1]!);
@@ -48,7 +35,7 @@ describe('estimate labels do not cover data', () => {
     const some = charts.filter((c) => c.datasetId !== null && c.id.endsWith(suffix)); // per-dataset charts (not the across-datasets ones)
     expect(some.length).toBeGreaterThan(0);
     for (const c of some) {
-      const textAtEstimate = marks(c.spec).filter((l) => type(l) === 'text' && (l.encoding?.x?.field === 'estimate' || l.encoding?.y?.field === 'estimate'));
+      const textAtEstimate = specMarks(c.spec).filter((l) => type(l) === 'text' && (l.encoding?.x?.field === 'estimate' || l.encoding?.y?.field === 'estimate'));
       expect(textAtEstimate).toEqual([]);
       const ds = [...r.datasets, ...weightsFixture().datasets].find((d) => d.id === c.datasetId)!;
       const m = suffix === '--layer-density' ? ds.measures.density! : suffix === '--kurtosis' ? ds.measures.kurtosis! : ds.measures[suffix.slice(2).replace('-', '_') as 'lifetime_sparseness']!;
@@ -69,7 +56,7 @@ describe('population sparseness near 1 is drawn on a fitted axis', () => {
   const chart = buildCharts(r).find((c) => c.id === `${ds.id}--population-sparseness`)!;
 
   it('the y domain covers the windows and the interval, not 0 to 1', () => {
-    const line = marks(chart.spec).find((l) => type(l) === 'line')!;
+    const line = specMarks(chart.spec).find((l) => type(l) === 'line')!;
     const domain = line.encoding.y.scale.domain as [number, number];
     expect(domain[0]).toBeGreaterThan(0.9); // a fitted axis, far above 0
     expect(domain[0]).toBeLessThanOrEqual(0.951); // the lowest window minimum

@@ -11,23 +11,17 @@
  *   that records what it is given, so this part runs without Slurm).
  */
 import { describe, it, expect, afterAll } from 'vitest';
+import { tempDirs } from '../helpers/temp-dirs.ts';
 import { spawnSync } from 'node:child_process';
-import { chmodSync, cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { chmodSync, cpSync, existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join, relative, resolve } from 'node:path';
 import { jobStates, slurmEnv, slurmStatus, stopSlurm, waitForJobs } from '../helpers/slurm.ts';
 
 const REPO = resolve(import.meta.dirname, '../..');
 const BIN = join(REPO, 'bin', 'lacuna.mjs');
 const SCRIPT = join(REPO, 'scripts', 'slurm-build.sh');
-const made: string[] = [];
-const tempDir = (prefix: string) => {
-  const d = mkdtempSync(join(tmpdir(), prefix));
-  made.push(d);
-  return d;
-};
+const tempDir = tempDirs();
 afterAll(() => {
-  for (const d of made) rmSync(d, { recursive: true, force: true });
   if (slurmStatus.ok && slurmStatus.started) stopSlurm(slurmStatus.started);
 });
 
